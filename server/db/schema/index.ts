@@ -1,0 +1,5 @@
+// Every table of the product, one file per table or close family. Add one export line per new file,
+// then run `npm run db:generate` to write the SQL migration into drizzle/.
+export * from './users.js';
+export * from './sessions.js';
+export * from './settings.js';
