@@ -8,3 +8,7 @@ export * from './job-events.js';
 export * from './nodes.js';
 export * from './audit.js';
 export * from './queue-state.js';
+export * from './archive-roots.js';
+export * from './arrays.js';
+export * from './recordings.js';
+export * from './uploads.js';
