@@ -1,0 +1,8 @@
+import { bootstrapApplication } from '@angular/platform-browser';
+import { AppComponent } from './app/app.component';
+import { appConfig } from './app/app.config';
+
+bootstrapApplication(AppComponent, appConfig).catch((error: unknown) => {
+  console.error(error);
+  document.body.textContent = 'Nullsmith could not start in this browser. Reload the page; if it persists, tell your administrator.';
+});
