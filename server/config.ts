@@ -28,6 +28,16 @@ const envSchema = z.object({
     .min(1, 'must be at least 1')
     .default(Math.max(1, os.cpus().length - 1)),
   DEMO_DATA: z.enum(['on', 'off'], { error: 'must be "on" or "off"' }).default('on'),
+  TRUST_PROXY: z
+    .string()
+    .regex(/^(off|on|\d{1,2}|[0-9a-fA-F.:/, ]+)$/, 'must be "off", "on", a hop count such as 1, or proxy addresses/CIDRs separated by commas')
+    .default('off'),
+  COOKIE_SECURE: z.enum(['on', 'off', 'auto'], { error: 'must be "on" (HTTPS only), "off", or "auto" (Secure whenever the request arrived over HTTPS)' }).default('auto'),
+  SESSION_MAX_AGE_HOURS: z.coerce
+    .number({ error: 'must be a number of hours, e.g. 12' })
+    .positive('must be more than 0 hours')
+    .max(24 * 90, 'must be at most 2160 hours (90 days)')
+    .default(12),
 });
 
 export type AppConfig = {
@@ -40,6 +50,11 @@ export type AppConfig = {
   logLevel: string;
   workerConcurrency: number;
   demoData: boolean;
+  /** Express 'trust proxy' value: false, true, a hop count or a list of proxy addresses. */
+  trustProxy: boolean | number | string;
+  /** Secure flag of the session and CSRF cookies; 'auto' sets it when the request came over HTTPS (needs TRUST_PROXY behind a proxy). */
+  cookieSecure: boolean | 'auto';
+  sessionMaxAgeMs: number;
 };
 
 export class ConfigError extends Error {
@@ -69,5 +84,15 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     logLevel: e.LOG_LEVEL,
     workerConcurrency: e.WORKER_CONCURRENCY,
     demoData: e.DEMO_DATA === 'on',
+    trustProxy: parseTrustProxy(e.TRUST_PROXY),
+    cookieSecure: e.COOKIE_SECURE === 'auto' ? 'auto' : e.COOKIE_SECURE === 'on',
+    sessionMaxAgeMs: Math.round(e.SESSION_MAX_AGE_HOURS * 3_600_000),
   };
+}
+
+function parseTrustProxy(value: string): boolean | number | string {
+  if (value === 'off') return false;
+  if (value === 'on') return true;
+  if (/^\d{1,2}$/.test(value)) return Number(value);
+  return value;
 }

@@ -1,0 +1,73 @@
+import session from 'express-session';
+import { eq, lt } from 'drizzle-orm';
+import type { AppDb } from '../db/client.js';
+import { sessions } from '../db/schema/index.js';
+
+type Callback = (err?: unknown) => void;
+
+/**
+ * express-session store on our own `sessions` table (PGlite or PostgreSQL through Drizzle),
+ * so sign-ins survive restarts and every node of a PostgreSQL deployment sees them. Small
+ * enough to own: the published stores each target one driver, and we switch drivers.
+ */
+export class DrizzleSessionStore extends session.Store {
+  private pruneTimer?: NodeJS.Timeout;
+
+  constructor(
+    private readonly db: AppDb,
+    private readonly defaultMaxAgeMs: number,
+  ) {
+    super();
+  }
+
+  override get(sid: string, cb: (err: unknown, session?: session.SessionData | null) => void): void {
+    this.db
+      .select({ data: sessions.data, expiresAt: sessions.expiresAt })
+      .from(sessions)
+      .where(eq(sessions.sid, sid))
+      .then(([row]) => cb(null, row && row.expiresAt.getTime() > Date.now() ? (row.data as session.SessionData) : null), cb);
+  }
+
+  override set(sid: string, sess: session.SessionData, cb?: Callback): void {
+    const data = JSON.parse(JSON.stringify(sess)) as session.SessionData;
+    const expiresAt = this.expiry(sess);
+    this.db
+      .insert(sessions)
+      .values({ sid, data, expiresAt })
+      .onConflictDoUpdate({ target: sessions.sid, set: { data, expiresAt } })
+      .then(() => cb?.(), (err: unknown) => cb?.(err));
+  }
+
+  override destroy(sid: string, cb?: Callback): void {
+    this.db.delete(sessions).where(eq(sessions.sid, sid)).then(() => cb?.(), (err: unknown) => cb?.(err));
+  }
+
+  override touch(sid: string, sess: session.SessionData, cb?: Callback): void {
+    this.db
+      .update(sessions)
+      .set({ expiresAt: this.expiry(sess) })
+      .where(eq(sessions.sid, sid))
+      .then(() => cb?.(), (err: unknown) => cb?.(err));
+  }
+
+  /** Deletes expired rows now and then every `everyMs`; the timer never keeps the process alive. */
+  startPruning(everyMs: number, onError: (err: unknown) => void): void {
+    const prune = () => this.pruneExpired().catch(onError);
+    void prune();
+    this.pruneTimer = setInterval(prune, everyMs);
+    this.pruneTimer.unref();
+  }
+
+  stopPruning(): void {
+    if (this.pruneTimer) clearInterval(this.pruneTimer);
+  }
+
+  async pruneExpired(): Promise<void> {
+    await this.db.delete(sessions).where(lt(sessions.expiresAt, new Date()));
+  }
+
+  private expiry(sess: session.SessionData): Date {
+    const expires = sess.cookie?.expires;
+    return expires ? new Date(expires) : new Date(Date.now() + this.defaultMaxAgeMs);
+  }
+}

@@ -1,0 +1,145 @@
+import http from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { pathToFileURL } from 'node:url';
+import { createApp } from './app.js';
+import { authKit } from './auth/auth-kit.js';
+import { seedDemoAccounts } from './auth/demo-accounts.js';
+import { ensureSessionSecret } from './auth/session-secret.js';
+import { ConfigError, loadConfig, type AppConfig } from './config.js';
+import type { AppContext } from './context.js';
+import { openDatabase } from './db/client.js';
+import { createLogger, type Logger } from './logger.js';
+import { serverPlugins, type ServerPlugin } from './plugins.js';
+
+export interface RunningServer {
+  /** e.g. http://127.0.0.1:41234 (the real port when PORT=0). */
+  url: string;
+  ctx: AppContext;
+  server: http.Server;
+  /** Stops accepting, ends open connections, stops plugins (ws, compute, node), closes the database. Idempotent. */
+  close(): Promise<void>;
+}
+
+export interface StartOptions {
+  /** Defaults to the registered list in plugins.ts. */
+  plugins?: ServerPlugin[];
+  logger?: Logger;
+}
+
+const SESSION_PRUNE_MS = 60 * 60_000;
+/** Keep-alive connections get this long to finish in-flight requests at shutdown. */
+const DRAIN_MS = 5_000;
+
+/** Opens the database, prepares secrets and demo accounts, starts plugins, listens. */
+export async function startServer(config: AppConfig, options: StartOptions = {}): Promise<RunningServer> {
+  const logger = options.logger ?? createLogger(config);
+  const plugins = options.plugins ?? serverPlugins;
+  const database = await openDatabase({ dataDir: config.dataDir, databaseUrl: config.databaseUrl });
+  const started: ServerPlugin[] = [];
+  let server: http.Server | undefined;
+  try {
+    const sessionSecret = await ensureSessionSecret(database.db, config.sessionSecret);
+    if (config.demoData) await seedDemoAccounts(database.db, logger);
+    const ctx: AppContext = { config, db: database.db, dbKind: database.kind, logger, sessionSecret, services: {}, startedAt: Date.now() };
+
+    for (const p of plugins) {
+      await p.start?.(ctx);
+      started.push(p);
+    }
+    const app = createApp(ctx);
+    authKit(ctx).store.startPruning(SESSION_PRUNE_MS, (err) => logger.warn('could not prune expired sessions', { error: String(err) }));
+    const httpServer = http.createServer(app);
+    server = httpServer;
+    for (const p of plugins) await p.attach?.(ctx, httpServer);
+    await listen(httpServer, config.port, config.host);
+    const { port } = httpServer.address() as AddressInfo;
+    const url = `http://${config.host.includes(':') ? `[${config.host}]` : config.host}:${port}`;
+
+    let closing: Promise<void> | undefined;
+    const close = () =>
+      (closing ??= (async () => {
+        const drained = new Promise<void>((resolve) => httpServer.close(() => resolve()));
+        httpServer.closeIdleConnections();
+        const force = setTimeout(() => httpServer.closeAllConnections(), DRAIN_MS);
+        await drained;
+        clearTimeout(force);
+        await stopPlugins(started, ctx, logger);
+        authKit(ctx).store.stopPruning();
+        await database.close();
+      })());
+    return { url, ctx, server: httpServer, close };
+  } catch (err) {
+    server?.close();
+    await database.close().catch(() => undefined);
+    throw err;
+  }
+}
+
+async function stopPlugins(started: ServerPlugin[], ctx: AppContext, logger: Logger): Promise<void> {
+  for (const p of [...started].reverse()) {
+    try {
+      await p.stop?.(ctx);
+    } catch (err) {
+      logger.error(`plugin ${p.name} did not stop cleanly`, { error: String(err) });
+    }
+  }
+}
+
+function listen(server: http.Server, port: number, host: string): Promise<void> {
+  return new Promise((resolve, reject) => {
+    server.once('error', reject);
+    server.listen(port, host, () => {
+      server.off('error', reject);
+      resolve();
+    });
+  });
+}
+
+/** Command-line entry: `node --import tsx server/main.ts`. */
+async function main(): Promise<void> {
+  let config: AppConfig;
+  try {
+    config = loadConfig();
+  } catch (err) {
+    if (err instanceof ConfigError) {
+      console.error(err.message);
+      process.exit(1);
+    }
+    throw err;
+  }
+  const logger = createLogger(config);
+  let running: RunningServer;
+  try {
+    running = await startServer(config, { logger });
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === 'EADDRINUSE') logger.error(`Port ${config.port} on ${config.host} is already in use. Stop the other program or set PORT to a free port (0 picks one).`);
+    else if (code === 'EACCES') logger.error(`Not allowed to listen on ${config.host}:${config.port}. Use a port above 1023 or run with the needed privilege.`);
+    else logger.error('Nullsmith could not start', { error: err instanceof Error ? (err.stack ?? err.message) : String(err) });
+    process.exit(1);
+  }
+  console.log(`Nullsmith listening on ${running.url}`);
+
+  let stopping = false;
+  const shutdown = (signal: string) => {
+    if (stopping) {
+      logger.warn(`${signal} again: exiting without finishing shutdown`);
+      process.exit(1);
+    }
+    stopping = true;
+    logger.info(`${signal}: shutting down`);
+    running.close().then(
+      () => process.exit(0),
+      (err: unknown) => {
+        logger.error('shutdown failed', { error: String(err) });
+        process.exit(1);
+      },
+    );
+  };
+  process.on('SIGTERM', () => shutdown('SIGTERM'));
+  process.on('SIGINT', () => shutdown('SIGINT'));
+}
+
+if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
+  await main();
+}

@@ -1,0 +1,23 @@
+import type { Router } from 'express';
+import type { AppContext } from '../context.js';
+import { authRouter } from './auth.router.js';
+import { healthRouter } from './health.router.js';
+import { usersRouter } from './users.router.js';
+
+export interface RouteMount {
+  /** Mount path, always under /api, e.g. '/api/jobs'. */
+  path: string;
+  router: Router;
+}
+
+/**
+ * Every API router, one line per resource. Routers guard themselves (requireUser /
+ * requireRole from server/auth/require-role.ts); only /api/health and /api/auth are public.
+ */
+export function apiRoutes(ctx: AppContext): RouteMount[] {
+  return [
+    { path: '/api/health', router: healthRouter(ctx) },
+    { path: '/api/auth', router: authRouter(ctx) },
+    { path: '/api/users', router: usersRouter(ctx) },
+  ];
+}
