@@ -257,7 +257,8 @@ for (const mode of dbModes()) {
       const ids = claims.filter((c) => c !== undefined).map((c) => c.id);
       expect(ids).to.have.length(20);
       expect(new Set(ids).size).to.equal(20);
-      const [{ n }] = (await h.db.execute(sql`select count(*)::int as n from jobs where state = 'running'`)).rows as { n: number }[];
+      const res = (await h.db.execute(sql`select count(*)::int as n from jobs where state = 'running'`)) as unknown as { rows: { n: number }[] };
+      const [{ n }] = res.rows;
       expect(Number(n)).to.equal(20);
     });
 
