@@ -67,5 +67,6 @@ function securityHeaders(httpsOnly: boolean): Parameters<typeof helmet>[0] {
     // HSTS only when the deployment says it is HTTPS-only; on plain-HTTP lab networks it would lock browsers out.
     strictTransportSecurity: httpsOnly,
     crossOriginEmbedderPolicy: false,
+    xFrameOptions: { action: 'deny' },
   };
 }

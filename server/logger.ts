@@ -12,7 +12,8 @@ export function createLogger(config: Pick<AppConfig, 'nodeEnv' | 'logLevel'>): L
   const readable = winston.format.combine(
     winston.format.timestamp({ format: 'HH:mm:ss.SSS' }),
     winston.format.printf(({ timestamp, level, message, ...meta }) => {
-      const rest = Object.keys(meta).length ? ` ${JSON.stringify(meta)}` : '';
+      const shown = Object.fromEntries(Object.entries(meta).filter(([, v]) => v !== undefined));
+      const rest = Object.keys(shown).length ? ` ${JSON.stringify(shown)}` : '';
       return `${String(timestamp)} ${level} ${String(message)}${rest}`;
     }),
   );

@@ -24,6 +24,8 @@ export interface StartOptions {
   /** Defaults to the registered list in plugins.ts. */
   plugins?: ServerPlugin[];
   logger?: Logger;
+  /** Tests: a throw-away in-memory PGlite instead of DATA_DIR/db (files still go under DATA_DIR). */
+  memoryDatabase?: boolean;
 }
 
 const SESSION_PRUNE_MS = 60 * 60_000;
@@ -34,7 +36,10 @@ const DRAIN_MS = 5_000;
 export async function startServer(config: AppConfig, options: StartOptions = {}): Promise<RunningServer> {
   const logger = options.logger ?? createLogger(config);
   const plugins = options.plugins ?? serverPlugins;
-  const database = await openDatabase({ dataDir: config.dataDir, databaseUrl: config.databaseUrl });
+  const database = await openDatabase({
+    dataDir: options.memoryDatabase && !config.databaseUrl ? 'memory://' : config.dataDir,
+    databaseUrl: config.databaseUrl,
+  });
   const started: ServerPlugin[] = [];
   let server: http.Server | undefined;
   try {
