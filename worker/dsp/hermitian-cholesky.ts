@@ -15,20 +15,20 @@ export const PIVOT_RELATIVE_FLOOR = 1e-13;
 
 /**
  * Factors A + δI into L (lower triangle written; the strict upper triangle of L is left
- * untouched and never read). Reads only the lower triangle of A. Returns false when the
+ * untouched and never read). Reads only the lower triangle of A (starting at aOff). Returns false when the
  * matrix is not (numerically) positive definite; L is then garbage.
  */
-export function choleskyFactor(l: Float64Array, a: Float64Array, n: number, delta = 0): boolean {
+export function choleskyFactor(l: Float64Array, a: Float64Array, n: number, delta = 0, aOff = 0): boolean {
   let maxDiag = 0;
   for (let i = 0; i < n; i++) {
-    const d = a[2 * (i * n + i)] + delta;
+    const d = a[aOff + 2 * (i * n + i)] + delta;
     if (d > maxDiag) maxDiag = d;
   }
   if (!(maxDiag > 0) || !Number.isFinite(maxDiag)) return false;
   const floor = PIVOT_RELATIVE_FLOOR * maxDiag;
   for (let j = 0; j < n; j++) {
     const rowJ = 2 * j * n;
-    let d = a[rowJ + 2 * j] + delta;
+    let d = a[aOff + rowJ + 2 * j] + delta;
     for (let k = 0; k < j; k++) {
       const re = l[rowJ + 2 * k];
       const im = l[rowJ + 2 * k + 1];
@@ -42,8 +42,8 @@ export function choleskyFactor(l: Float64Array, a: Float64Array, n: number, delt
     for (let i = j + 1; i < n; i++) {
       const rowI = 2 * i * n;
       // L_ij = (A_ij − Σ_k L_ik·conj(L_jk)) / L_jj
-      let sr = a[rowI + 2 * j];
-      let si = a[rowI + 2 * j + 1];
+      let sr = a[aOff + rowI + 2 * j];
+      let si = a[aOff + rowI + 2 * j + 1];
       for (let k = 0; k < j; k++) {
         const ar = l[rowI + 2 * k];
         const ai = l[rowI + 2 * k + 1];

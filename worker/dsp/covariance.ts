@@ -1,0 +1,222 @@
+/**
+ * Covariance estimators per bin (CONVENTIONS.md "Windows and estimates"):
+ *  - sample covariance R̂ = (1/K)·Σ x·xᴴ over a window (no mean removal, divide by K);
+ *  - exponential forgetting R_m = α·R_{m−1} + (1−α)·x·xᴴ (K_eff = (1+α)/(1−α));
+ *  - a sliding-window accumulator for overlapping windows (window hop < K).
+ * Matrices are flat interleaved (re, im) row-major N×N, one after another per bin
+ * (bin b at offset 2·N²·b). Alongside each matrix the estimators keep Σ‖x‖⁴/K (the fourth
+ * moment the Ledoit–Wolf shrinkage needs).
+ */
+import type { SnapshotBlock } from './window-engine.types.js';
+
+/**
+ * Adds scale·Σ x·xᴴ over `count` snapshots of one bin to the upper triangle of r (the lower
+ * triangle is not touched: call mirrorUpper afterwards). Returns scale·Σ‖x‖⁴ for the same snapshots.
+ * `snapOff` is the offset (in doubles) of the first snapshot; snapshots are 2N doubles apart.
+ */
+export function accumulateOuterProducts(r: Float64Array, rOff: number, block: Float64Array, snapOff: number, count: number, n: number, scale: number): number {
+  let fourth = 0;
+  for (let k = 0; k < count; k++) {
+    const x = snapOff + 2 * n * k;
+    let norm2 = 0;
+    for (let i = 0; i < n; i++) {
+      const xr = block[x + 2 * i] * scale;
+      const xi = block[x + 2 * i + 1] * scale;
+      norm2 += block[x + 2 * i] * block[x + 2 * i] + block[x + 2 * i + 1] * block[x + 2 * i + 1];
+      const row = rOff + 2 * (i * n);
+      // R_ij += scale·x_i·conj(x_j), j ≥ i
+      for (let j = i; j < n; j++) {
+        const yr = block[x + 2 * j];
+        const yi = block[x + 2 * j + 1];
+        r[row + 2 * j] += xr * yr + xi * yi;
+        r[row + 2 * j + 1] += xi * yr - xr * yi;
+      }
+    }
+    fourth += norm2 * norm2;
+  }
+  return fourth * scale;
+}
+
+/** Copies the conjugate of the upper triangle into the lower triangle; forces a real diagonal. */
+export function mirrorUpper(r: Float64Array, rOff: number, n: number): void {
+  for (let i = 0; i < n; i++) {
+    r[rOff + 2 * (i * n + i) + 1] = 0;
+    for (let j = i + 1; j < n; j++) {
+      r[rOff + 2 * (j * n + i)] = r[rOff + 2 * (i * n + j)];
+      r[rOff + 2 * (j * n + i) + 1] = -r[rOff + 2 * (i * n + j) + 1];
+    }
+  }
+}
+
+/**
+ * Sample covariance of every bin of a snapshot block (layout of window-engine.types.ts) into
+ * covs (nBins·N²·2); fourthMoments[b] receives (1/K)·Σ‖x_k‖⁴.
+ */
+export function blockCovariances(covs: Float64Array, fourthMoments: Float64Array, block: SnapshotBlock, nBins: number, k: number, n: number): void {
+  if (block.length < nBins * k * n * 2) {
+    throw new RangeError(`snapshot block holds ${block.length} values but ${nBins} bins × ${k} snapshots × ${n} channels need ${nBins * k * n * 2}`);
+  }
+  const m = 2 * n * n;
+  covs.fill(0, 0, nBins * m);
+  for (let b = 0; b < nBins; b++) {
+    fourthMoments[b] = accumulateOuterProducts(covs, b * m, block, b * k * n * 2, k, n, 1 / k);
+    mirrorUpper(covs, b * m, n);
+  }
+}
+
+/** Exponential forgetting per bin: R_m = α·R_{m−1} + (1−α)·x_m·x_mᴴ. */
+export class ForgettingCovariance {
+  readonly nBins: number;
+  readonly channels: number;
+  readonly alpha: number;
+  /** Variance-equivalent support (1+α)/(1−α) (DOMAIN.md §2, derived). */
+  readonly effectiveSnapshots: number;
+  /** Current estimates, nBins·N²·2 (full Hermitian matrices). */
+  readonly covariances: Float64Array;
+  /** Forgetting average of ‖x‖⁴ per bin (for Ledoit–Wolf). */
+  readonly fourthMoments: Float64Array;
+  private seen = 0;
+
+  constructor(nBins: number, channels: number, alpha: number) {
+    if (!(alpha > 0 && alpha < 1)) throw new RangeError(`forgetting factor α must lie strictly between 0 and 1, got ${alpha}`);
+    this.nBins = nBins;
+    this.channels = channels;
+    this.alpha = alpha;
+    this.effectiveSnapshots = (1 + alpha) / (1 - alpha);
+    this.covariances = new Float64Array(nBins * channels * channels * 2);
+    this.fourthMoments = new Float64Array(nBins);
+  }
+
+  /** Snapshots absorbed so far. */
+  get snapshotsSeen(): number {
+    return this.seen;
+  }
+
+  /** True once K_eff snapshots have entered; earlier outputs should be flagged as warming up. */
+  get warmedUp(): boolean {
+    return this.seen >= this.effectiveSnapshots;
+  }
+
+  /** Absorbs `count` snapshots per bin, in order, from a block laid out with `count` snapshots per bin. */
+  update(block: SnapshotBlock, count: number): void {
+    const n = this.channels;
+    const m = 2 * n * n;
+    const a = this.alpha;
+    const c = this.covariances;
+    for (let b = 0; b < this.nBins; b++) {
+      const off = b * m;
+      for (let k = 0; k < count; k++) {
+        // Scale the upper triangle by α, then add (1−α)·x·xᴴ to it.
+        for (let i = 0; i < n; i++) {
+          for (let j = i; j < n; j++) {
+            c[off + 2 * (i * n + j)] *= a;
+            c[off + 2 * (i * n + j) + 1] *= a;
+          }
+        }
+        const f = accumulateOuterProducts(c, off, block, (b * count + k) * n * 2, 1, n, 1 - a);
+        this.fourthMoments[b] = a * this.fourthMoments[b] + f;
+      }
+      mirrorUpper(c, off, n);
+    }
+    this.seen += count;
+  }
+}
+
+/**
+ * Sliding-window sample covariance for overlapping windows (window hop H < K), kept as a ring
+ * of partial sums over groups of g = gcd(K, H) snapshots: each new window adds H/g fresh group
+ * sums and the estimate is the sum of the last K/g groups.
+ *
+ * Why partial sums and not "add the new snapshots, subtract the old ones": bench/dsp-sliding.ts
+ * measured both (N = 32, K = 64). Partial sums cost H outer products plus K/g matrix additions
+ * per window, never drift, and need no periodic exact recompute; add/subtract costs 2H outer
+ * products and drifts in floating point, so it needs a periodic recompute from stored snapshots.
+ * Partial sums were faster for H ≥ 8 and within a few per cent below that.
+ */
+export class SlidingCovariance {
+  readonly nBins: number;
+  readonly channels: number;
+  readonly snapshotsPerWindow: number;
+  readonly windowHop: number;
+  readonly groupSize: number;
+  readonly groups: number;
+  /** The current window's estimates, nBins·N²·2 (valid after `current()`). */
+  readonly covariances: Float64Array;
+  /** (1/K)·Σ‖x‖⁴ per bin for the current window. */
+  readonly fourthMoments: Float64Array;
+  private readonly ring: Float64Array; // groups · nBins · N²·2 (upper triangles, unscaled sums)
+  private readonly ringFourth: Float64Array; // groups · nBins
+  private next = 0;
+  private filled = 0;
+
+  constructor(nBins: number, channels: number, snapshotsPerWindow: number, windowHop: number) {
+    if (!Number.isInteger(windowHop) || windowHop < 1 || windowHop > snapshotsPerWindow) {
+      throw new RangeError(`window hop must be an integer from 1 to K = ${snapshotsPerWindow} snapshots, got ${windowHop}`);
+    }
+    this.nBins = nBins;
+    this.channels = channels;
+    this.snapshotsPerWindow = snapshotsPerWindow;
+    this.windowHop = windowHop;
+    this.groupSize = gcd(snapshotsPerWindow, windowHop);
+    this.groups = snapshotsPerWindow / this.groupSize;
+    const m = 2 * channels * channels;
+    this.covariances = new Float64Array(nBins * m);
+    this.fourthMoments = new Float64Array(nBins);
+    this.ring = new Float64Array(this.groups * nBins * m);
+    this.ringFourth = new Float64Array(this.groups * nBins);
+  }
+
+  /** True once K snapshots have been pushed. */
+  get ready(): boolean {
+    return this.filled >= this.groups;
+  }
+
+  /**
+   * Pushes `count` new snapshots per bin (a multiple of the group size, normally K for the first
+   * window and H afterwards) from a block laid out with `count` snapshots per bin.
+   */
+  push(block: SnapshotBlock, count: number): void {
+    const g = this.groupSize;
+    if (count % g !== 0) throw new RangeError(`push ${count} snapshots: must be a multiple of ${g} (gcd of K and the window hop)`);
+    const n = this.channels;
+    const m = 2 * n * n;
+    for (let start = 0; start < count; start += g) {
+      const slot = this.next;
+      const base = slot * this.nBins * m;
+      this.ring.fill(0, base, base + this.nBins * m);
+      for (let b = 0; b < this.nBins; b++) {
+        this.ringFourth[slot * this.nBins + b] = accumulateOuterProducts(this.ring, base + b * m, block, (b * count + start) * n * 2, g, n, 1);
+      }
+      this.next = (slot + 1) % this.groups;
+      if (this.filled < this.groups) this.filled++;
+    }
+  }
+
+  /** Sums the ring into `covariances` (scaled by 1/K, mirrored) and returns it. */
+  current(): Float64Array {
+    if (!this.ready) throw new RangeError(`sliding covariance holds ${this.filled * this.groupSize} of K = ${this.snapshotsPerWindow} snapshots: push more before reading`);
+    const n = this.channels;
+    const m = 2 * n * n;
+    const total = this.nBins * m;
+    const c = this.covariances;
+    c.fill(0);
+    this.fourthMoments.fill(0);
+    for (let s = 0; s < this.groups; s++) {
+      const base = s * total;
+      for (let i = 0; i < total; i++) c[i] += this.ring[base + i];
+      for (let b = 0; b < this.nBins; b++) this.fourthMoments[b] += this.ringFourth[s * this.nBins + b];
+    }
+    const inv = 1 / this.snapshotsPerWindow;
+    for (let i = 0; i < total; i++) c[i] *= inv;
+    for (let b = 0; b < this.nBins; b++) {
+      this.fourthMoments[b] *= inv;
+      mirrorUpper(c, b * m, n);
+    }
+    return c;
+  }
+}
+
+function gcd(a: number, b: number): number {
+  while (b) [a, b] = [b, a % b];
+  return a;
+}

@@ -1,0 +1,501 @@
+/**
+ * The per-window numeric core (contract: window-engine.types.ts). Built once per job: steering
+ * vectors, factor and eigen workspaces and the SINR quantiles are prepared in the constructor,
+ * so processWindow allocates nothing.
+ *
+ * Per bin: R̂ (covariance.ts) → eigenvalues (Householder + QL) → δ by the loading rule →
+ * one complex Cholesky of R̂ + δI → for every look direction z = L⁻¹v, vᴴR_L⁻¹v = ‖z‖²,
+ * w = L⁻ᴴz/‖z‖² (so wᴴv = 1), WNG = 1/‖w‖², output power wᴴR̂w.
+ *
+ * Broadband values are incoherent sums over the processed bins that were positive definite:
+ * powers add; broadband SINR = Σ signal-power estimates / Σ noise-power estimates, where for
+ * the evaluation-block estimator signal = ((Ke−1)/Ke)·P̂x − P̂n and noise = P̂n, and for the
+ * upper bound signal = P_out − σ̂w²‖w‖² and noise = σ̂w²‖w‖².
+ */
+import type { EngineSetup, SnapshotBlock, WindowEngine, WindowResult } from './window-engine.types.js';
+import { blockCovariances } from './covariance.js';
+import { HermitianEigenvalues } from './hermitian-eigen.js';
+import { choleskyFactor, solveLower, solveUpperConjInPlace } from './hermitian-cholesky.js';
+import { elementLeadsS, steeringFromLeads } from './steering.js';
+import { ledoitWolf, medianOfSorted, noiseFloorLoading, traceLoading, traceOf, type LedoitWolf } from './loading.js';
+import { SinrEstimator, sinrUpperBound } from './sinr-estimate.js';
+
+/** How the SINR columns were produced. */
+export type SinrMethod = 'evaluation-block' | 'upper-bound';
+
+/** Steering tables larger than this many doubles are computed per bin instead of stored. */
+const STEERING_TABLE_LIMIT = 1 << 22;
+
+/** Relative precision of the WNG-floor bisection on δ. */
+const WNG_BISECTION_RATIO = 1 + 1e-6;
+
+export function allocateWindowResult(setup: EngineSetup): WindowResult {
+  const nBins = setup.binFreqsHz.length;
+  const nBeams = setup.azimuthsDeg.length;
+  const n = setup.channels;
+  const nb = nBins * nBeams;
+  return {
+    loading: new Float64Array(nBins),
+    notPositiveDefinite: new Uint8Array(nBins),
+    adaptivePower: new Float64Array(nb),
+    conventionalPower: new Float64Array(nb),
+    wng: new Float64Array(nb),
+    sinr: new Float64Array(nb),
+    sinrLow: new Float64Array(nb),
+    sinrHigh: new Float64Array(nb),
+    broadbandAdaptivePower: new Float64Array(nBeams),
+    broadbandConventionalPower: new Float64Array(nBeams),
+    broadbandSinr: new Float64Array(nBeams),
+    weights: new Float64Array(nBins * setup.savedBeams.length * n * 2),
+    eigenvalues: new Float64Array(nBins * n),
+    noiseFloor: new Float64Array(nBins),
+    mpUpperEdge: new Float64Array(nBins),
+    eigenvaluesAboveEdge: new Int32Array(nBins),
+    conditionNumber: new Float64Array(nBins),
+  };
+}
+
+export function createWindowEngine(setup: EngineSetup): BeamformingEngine {
+  return new BeamformingEngine(setup);
+}
+
+function validateSetup(s: EngineSetup): void {
+  const n = s.channels;
+  if (!Number.isInteger(n) || n < 1) throw new RangeError(`channels must be a positive integer, got ${n}`);
+  if (s.positionsM.length !== 3 * n) throw new RangeError(`positionsM must hold 3·N = ${3 * n} numbers (x, y, z per element), got ${s.positionsM.length}`);
+  if (!(s.speedMps > 0) || !Number.isFinite(s.speedMps)) throw new RangeError(`propagation speed must be a positive number of m/s, got ${s.speedMps}`);
+  if (s.binFreqsHz.length < 1) throw new RangeError('at least one frequency bin is needed');
+  if (s.azimuthsDeg.length < 1 || s.azimuthsDeg.length !== s.elevationsDeg.length) {
+    throw new RangeError(`azimuths (${s.azimuthsDeg.length}) and elevations (${s.elevationsDeg.length}) must be non-empty and of equal length`);
+  }
+  for (let i = 0; i < s.savedBeams.length; i++) {
+    const b = s.savedBeams[i];
+    if (!(b >= 0 && b < s.azimuthsDeg.length)) throw new RangeError(`saved beam index ${b} is outside the fan of ${s.azimuthsDeg.length} look directions`);
+  }
+  if (!Number.isInteger(s.snapshotsPerWindow) || s.snapshotsPerWindow < 1) {
+    throw new RangeError(`snapshots per window K must be a positive integer, got ${s.snapshotsPerWindow}`);
+  }
+  if (s.loading.kind === 'wng-floor') {
+    const maxDb = 10 * Math.log10(n);
+    if (!(s.loading.minWngDb <= maxDb + 1e-12)) {
+      throw new RangeError(`white-noise-gain floor ${s.loading.minWngDb} dB exceeds the largest possible WNG 10·log10(N) = ${maxDb.toFixed(2)} dB for N = ${n}: lower the floor`);
+    }
+  }
+}
+
+export class BeamformingEngine implements WindowEngine {
+  readonly setup: EngineSetup;
+  readonly channels: number;
+  readonly nBins: number;
+  readonly nBeams: number;
+  /** SINR method in force after setTraining (upper bound until an evaluation block is given). */
+  sinrMethod: SinrMethod = 'upper-bound';
+
+  private readonly m2: number; // 2N²
+  private readonly covs: Float64Array;
+  private readonly fourth: Float64Array;
+  private readonly eig: HermitianEigenvalues;
+  private readonly chol: Float64Array;
+  private readonly z: Float64Array;
+  private readonly leads: Float64Array; // nBeams·N lead times
+  private readonly steerTable: Float64Array | null; // nBins·nBeams·2N
+  private readonly steerScratch: Float64Array; // nBeams·2N when no table
+  private readonly savedSlot: Int32Array;
+  private readonly failing: Int32Array;
+  private readonly lw: LedoitWolf = { mu: 0, d2: 0, b2: 0, s: 0, delta: 0 };
+  private readonly trainEig: Float64Array;
+  private readonly bbSignal: Float64Array;
+  private readonly bbNoise: Float64Array;
+  private vBuf: Float64Array;
+  private vBase = 0;
+
+  // MVDR training state (weights fixed per bin and beam).
+  private trained = false;
+  private readonly trainWeights: Float64Array | null; // nBins·nBeams·2N
+  private readonly trainWeightNorm2: Float64Array; // nBins·nBeams
+  private readonly trainLoading: Float64Array; // nBins
+  private readonly trainNotPd: Uint8Array; // nBins
+  // Noise-only evaluation block.
+  private evalCovs: Float64Array | null = null;
+  private evalNoisePower: Float64Array | null = null; // nBins·nBeams for fixed weights
+  private sinrEst: SinrEstimator | null = null;
+
+  constructor(setup: EngineSetup) {
+    validateSetup(setup);
+    this.setup = setup;
+    const n = (this.channels = setup.channels);
+    this.nBins = setup.binFreqsHz.length;
+    this.nBeams = setup.azimuthsDeg.length;
+    this.m2 = 2 * n * n;
+    this.covs = new Float64Array(this.nBins * this.m2);
+    this.fourth = new Float64Array(this.nBins);
+    this.eig = new HermitianEigenvalues(n);
+    this.chol = new Float64Array(this.m2);
+    this.z = new Float64Array(2 * n);
+    this.leads = new Float64Array(this.nBeams * n);
+    const lead = new Float64Array(n);
+    for (let b = 0; b < this.nBeams; b++) {
+      elementLeadsS(lead, setup.positionsM, setup.azimuthsDeg[b], setup.elevationsDeg[b], setup.speedMps);
+      this.leads.set(lead, b * n);
+    }
+    const tableSize = this.nBins * this.nBeams * 2 * n;
+    this.steerScratch = new Float64Array(this.nBeams * 2 * n);
+    if (tableSize <= STEERING_TABLE_LIMIT) {
+      this.steerTable = new Float64Array(tableSize);
+      for (let f = 0; f < this.nBins; f++) this.fillSteering(this.steerTable, f * this.nBeams * 2 * n, f);
+    } else {
+      this.steerTable = null;
+    }
+    this.vBuf = this.steerScratch;
+    this.savedSlot = new Int32Array(this.nBeams).fill(-1);
+    for (let s = 0; s < setup.savedBeams.length; s++) this.savedSlot[setup.savedBeams[s]] = s;
+    this.failing = new Int32Array(this.nBeams);
+    this.trainEig = new Float64Array(n);
+    this.bbSignal = new Float64Array(this.nBeams);
+    this.bbNoise = new Float64Array(this.nBeams);
+    const mvdr = setup.beamformer === 'mvdr';
+    this.trainWeights = mvdr ? new Float64Array(this.nBins * this.nBeams * 2 * n) : null;
+    this.trainWeightNorm2 = new Float64Array(mvdr ? this.nBins * this.nBeams : 0);
+    this.trainLoading = new Float64Array(this.nBins);
+    this.trainNotPd = new Uint8Array(this.nBins);
+  }
+
+  setTraining(weightsBlock: SnapshotBlock | null, weightsSnapshots: number, evaluationBlock: SnapshotBlock | null, evaluationSnapshots: number): void {
+    const n = this.channels;
+    const nBins = this.nBins;
+    if (evaluationBlock) {
+      if (!(evaluationSnapshots >= 2)) throw new RangeError(`the noise-only evaluation block needs at least 2 snapshots per bin, got ${evaluationSnapshots}`);
+      this.evalCovs = new Float64Array(nBins * this.m2);
+      blockCovariances(this.evalCovs, new Float64Array(nBins), evaluationBlock, nBins, evaluationSnapshots, n);
+      this.sinrEst = new SinrEstimator(this.setup.snapshotsPerWindow, evaluationSnapshots);
+      this.sinrMethod = 'evaluation-block';
+    } else {
+      this.evalCovs = null;
+      this.sinrEst = null;
+      this.sinrMethod = 'upper-bound';
+    }
+    if (this.setup.beamformer !== 'mvdr') {
+      if (weightsBlock) throw new RangeError(`a training block is only used by MVDR; this job runs ${this.setup.beamformer}: pass null`);
+      return;
+    }
+    if (!weightsBlock) throw new RangeError('MVDR needs a noise-only training block (signal absent) to build its weights: pass one, or choose MPDR');
+    if (!(weightsSnapshots >= 1)) throw new RangeError(`training block must hold at least one snapshot per bin, got ${weightsSnapshots}`);
+    const covs = new Float64Array(nBins * this.m2);
+    const fourth = new Float64Array(nBins);
+    blockCovariances(covs, fourth, weightsBlock, nBins, weightsSnapshots, n);
+    const w = this.trainWeights!;
+    this.evalNoisePower = this.evalCovs ? new Float64Array(nBins * this.nBeams) : null;
+    const stride = 2 * n;
+    for (let f = 0; f < nBins; f++) {
+      const off = f * this.m2;
+      this.eig.run(this.trainEig, 0, covs, off);
+      const delta = this.chooseLoading(covs, off, fourth[f], weightsSnapshots, this.trainEig, 0, f);
+      this.trainLoading[f] = delta;
+      this.selectSteering(f);
+      this.trainNotPd[f] = 0;
+      const pd = Number.isFinite(delta) ? this.factorAt(covs, off, delta) : true;
+      if (!pd) {
+        this.trainNotPd[f] = 1;
+        for (let b = 0; b < this.nBeams; b++) this.trainWeightNorm2[f * this.nBeams + b] = NaN;
+        continue;
+      }
+      for (let b = 0; b < this.nBeams; b++) {
+        const wOff = (f * this.nBeams + b) * stride;
+        const norm2 = this.weightsInto(w, wOff, b, Number.isFinite(delta));
+        this.trainWeightNorm2[f * this.nBeams + b] = norm2;
+        if (this.evalNoisePower && this.evalCovs) {
+          this.evalNoisePower[f * this.nBeams + b] = hermitianForm(this.evalCovs, off, w, wOff, n);
+        }
+      }
+    }
+    this.trained = true;
+  }
+
+  processWindow(snapshots: SnapshotBlock, out: WindowResult): void {
+    blockCovariances(this.covs, this.fourth, snapshots, this.nBins, this.setup.snapshotsPerWindow, this.channels);
+    this.processCovariances(this.covs, this.fourth, this.setup.snapshotsPerWindow, out);
+  }
+
+  /**
+   * Same as processWindow from covariances already formed (nBins·N²·2, full Hermitian), e.g. by
+   * ForgettingCovariance or SlidingCovariance. `fourthMoments` (K⁻¹Σ‖x‖⁴ per bin) is needed only
+   * by Ledoit–Wolf loading; `effectiveSnapshots` is K (or K_eff under forgetting).
+   */
+  processCovariances(covs: Float64Array, fourthMoments: Float64Array | null, effectiveSnapshots: number, out: WindowResult): void {
+    const n = this.channels;
+    const nBeams = this.nBeams;
+    const kind = this.setup.beamformer;
+    if (kind === 'mvdr' && !this.trained) {
+      throw new Error('MVDR weights are not trained yet: call setTraining with a noise-only block before processing windows');
+    }
+    if (this.setup.loading.kind === 'ledoit-wolf' && !fourthMoments && kind === 'mpdr') {
+      throw new RangeError('Ledoit–Wolf loading needs the per-bin fourth moments of the snapshots: pass fourthMoments');
+    }
+    if (covs.length < this.nBins * this.m2) throw new RangeError(`covariance buffer holds ${covs.length} values, ${this.nBins * this.m2} needed`);
+    this.bbSignal.fill(0);
+    this.bbNoise.fill(0);
+    out.broadbandAdaptivePower.fill(0);
+    out.broadbandConventionalPower.fill(0);
+    const mpFactor = (1 + Math.sqrt(n / effectiveSnapshots)) ** 2;
+    const stride = 2 * n;
+    const sinrEst = this.sinrEst;
+    for (let f = 0; f < this.nBins; f++) {
+      const off = f * this.m2;
+      const eOff = f * n;
+      // Eigen diagnostics of the window's R̂.
+      this.eig.run(out.eigenvalues, eOff, covs, off);
+      const floor = medianOfSorted(out.eigenvalues, eOff, n);
+      out.noiseFloor[f] = floor;
+      const edge = floor * mpFactor;
+      out.mpUpperEdge[f] = edge;
+      let above = 0;
+      for (let i = 0; i < n; i++) if (out.eigenvalues[eOff + i] > edge) above++;
+      out.eigenvaluesAboveEdge[f] = above;
+      const lmin = out.eigenvalues[eOff + n - 1];
+      out.conditionNumber[f] = lmin > 0 ? out.eigenvalues[eOff] / lmin : Infinity;
+      this.selectSteering(f);
+      const v = this.vBuf;
+      // Conventional power vᴴR̂v/N² (valid whether or not R̂ is invertible).
+      const invN2 = 1 / (n * n);
+      for (let b = 0; b < nBeams; b++) {
+        const p = hermitianForm(covs, off, v, this.vBase + b * stride, n) * invN2;
+        out.conventionalPower[f * nBeams + b] = p;
+        out.broadbandConventionalPower[b] += p;
+      }
+      // Weights: MVDR uses the trained ones; MPDR factors this window; conventional v/N.
+      let delta = 0;
+      let pd = true;
+      if (kind === 'mpdr') {
+        delta = this.chooseLoading(covs, off, fourthMoments ? fourthMoments[f] : 0, effectiveSnapshots, out.eigenvalues, eOff, f);
+        pd = Number.isFinite(delta) ? this.factorAt(covs, off, delta) : true;
+      } else if (kind === 'mvdr') {
+        delta = this.trainLoading[f];
+        pd = this.trainNotPd[f] === 0;
+      }
+      out.loading[f] = delta;
+      out.notPositiveDefinite[f] = pd ? 0 : 1;
+      if (!pd) {
+        for (let b = 0; b < nBeams; b++) {
+          const i = f * nBeams + b;
+          out.adaptivePower[i] = NaN;
+          out.wng[i] = NaN;
+          out.sinr[i] = NaN;
+          out.sinrLow[i] = NaN;
+          out.sinrHigh[i] = NaN;
+          const s = this.savedSlot[b];
+          if (s >= 0) out.weights.fill(NaN, ((f * this.setup.savedBeams.length + s) * n) * 2, ((f * this.setup.savedBeams.length + s + 1) * n) * 2);
+        }
+        continue;
+      }
+      const nSaved = this.setup.savedBeams.length;
+      for (let b = 0; b < nBeams; b++) {
+        const i = f * nBeams + b;
+        let power: number;
+        let norm2: number;
+        let wSrc: Float64Array;
+        let wOff: number;
+        if (kind === 'conventional' || (kind === 'mpdr' && !Number.isFinite(delta))) {
+          // w = v/N: ‖w‖² = 1/N, output power = conventional power.
+          norm2 = 1 / n;
+          power = out.conventionalPower[i];
+          wSrc = v;
+          wOff = this.vBase + b * stride;
+          this.copySaved(out.weights, f, nSaved, b, wSrc, wOff, 1 / n);
+        } else if (kind === 'mpdr') {
+          const z = this.z;
+          norm2 = this.weightsInto(z, 0, b, true);
+          // wᴴR̂w = wᴴ(R̂+δI)w − δ‖w‖² = 1/(vᴴR_L⁻¹v) − δ‖w‖² (no extra N² pass).
+          power = this.lastCapon - delta * norm2;
+          wSrc = z;
+          wOff = 0;
+          this.copySaved(out.weights, f, nSaved, b, z, 0, 1);
+        } else {
+          wSrc = this.trainWeights!;
+          wOff = i * stride;
+          norm2 = this.trainWeightNorm2[i];
+          power = hermitianForm(covs, off, wSrc, wOff, n);
+          this.copySaved(out.weights, f, nSaved, b, wSrc, wOff, 1);
+        }
+        out.adaptivePower[i] = power;
+        out.wng[i] = 1 / norm2;
+        out.broadbandAdaptivePower[b] += power;
+        if (sinrEst && this.evalCovs) {
+          const pn = kind === 'mvdr' ? this.evalNoisePower![i] : hermitianForm(this.evalCovs, off, wSrc, wOff, n) * (wSrc === v ? 1 / (n * n) : 1);
+          out.sinr[i] = sinrEst.estimate(power, pn);
+          out.sinrLow[i] = sinrEst.lower(power, pn);
+          out.sinrHigh[i] = sinrEst.upper(power, pn);
+          this.bbSignal[b] += sinrEst.biasFactor * power - pn;
+          this.bbNoise[b] += pn;
+        } else {
+          out.sinr[i] = sinrUpperBound(power, floor, norm2);
+          out.sinrLow[i] = NaN;
+          out.sinrHigh[i] = NaN;
+          const noise = floor * norm2;
+          this.bbSignal[b] += power - noise;
+          this.bbNoise[b] += noise;
+        }
+      }
+    }
+    for (let b = 0; b < nBeams; b++) {
+      out.broadbandSinr[b] = this.bbNoise[b] > 0 ? this.bbSignal[b] / this.bbNoise[b] : NaN;
+    }
+  }
+
+  /** 1/(vᴴR_L⁻¹v) of the last weightsInto call (Capon power of the loaded matrix). */
+  private lastCapon = 0;
+
+  /**
+   * With this.chol holding L for the current bin: writes w = L⁻ᴴL⁻¹v/(vᴴR_L⁻¹v) for beam b into
+   * dst[dOff…] and returns ‖w‖². `adaptive` false writes w = v/N (infinite loading).
+   */
+  private weightsInto(dst: Float64Array, dOff: number, beam: number, adaptive: boolean): number {
+    const n = this.channels;
+    const vOff = this.vBase + beam * 2 * n;
+    if (!adaptive) {
+      for (let i = 0; i < 2 * n; i++) dst[dOff + i] = this.vBuf[vOff + i] / n;
+      this.lastCapon = NaN;
+      return 1 / n;
+    }
+    solveLower(dst, dOff, this.chol, this.vBuf, vOff, n);
+    let s = 0;
+    for (let i = 0; i < 2 * n; i++) s += dst[dOff + i] * dst[dOff + i];
+    solveUpperConjInPlace(dst, dOff, this.chol, n);
+    const inv = 1 / s;
+    let norm2 = 0;
+    for (let i = 0; i < 2 * n; i++) {
+      const x = dst[dOff + i] * inv;
+      dst[dOff + i] = x;
+      norm2 += x * x;
+    }
+    this.lastCapon = inv;
+    return norm2;
+  }
+
+  private copySaved(dst: Float64Array, f: number, nSaved: number, beam: number, src: Float64Array, sOff: number, scale: number): void {
+    const s = this.savedSlot[beam];
+    if (s < 0) return;
+    const n2 = 2 * this.channels;
+    const d = (f * nSaved + s) * n2;
+    for (let i = 0; i < n2; i++) dst[d + i] = src[sOff + i] * scale;
+  }
+
+  /** Cholesky of covs[off…] + δI into this.chol. */
+  private factorAt(covs: Float64Array, off: number, delta: number): boolean {
+    return choleskyFactor(this.chol, covs, this.channels, delta, off);
+  }
+
+  /** Loading δ for one bin by the job's rule (eigenvalues of R̂ at eig[eOff…], descending). */
+  private chooseLoading(covs: Float64Array, off: number, fourth: number, k: number, eig: Float64Array, eOff: number, f: number): number {
+    const n = this.channels;
+    const rule = this.setup.loading;
+    switch (rule.kind) {
+      case 'none':
+        return 0;
+      case 'trace':
+        return traceLoading(rule.levelDb, traceOf(covs, off, n), n);
+      case 'noise-floor':
+        return noiseFloorLoading(rule.levelDb, medianOfSorted(eig, eOff, n));
+      case 'ledoit-wolf':
+        return ledoitWolf(this.lw, covs, off, n, fourth, k).delta;
+      case 'wng-floor':
+        return this.wngFloorLoading(covs, off, Math.pow(10, rule.minWngDb / 10), f);
+    }
+  }
+
+  /**
+   * Smallest δ (to a relative 1e-6) at which every look direction of this bin keeps
+   * WNG ≥ gMin, by bisection on log δ (WNG rises monotonically with δ toward N; Cox, Zeskind &
+   * Owen 1987). Only beams still failing at the lower bracket are re-checked. Infinity means
+   * only conventional weights meet the floor (gMin = N).
+   */
+  private wngFloorLoading(covs: Float64Array, off: number, gMin: number, f: number): number {
+    const n = this.channels;
+    const target = gMin * (1 - 1e-12);
+    const failing = this.failing;
+    let count = 0;
+    const scale = traceOf(covs, off, n) / n;
+    if (!(scale > 0)) return Infinity;
+    this.selectSteering(f);
+    // δ = 0 first (when R̂ is invertible).
+    if (this.factorAt(covs, off, 0)) {
+      for (let b = 0; b < this.nBeams; b++) if (1 / this.weightsInto(this.z, 0, b, true) < target) failing[count++] = b;
+      if (count === 0) return 0;
+    } else {
+      for (let b = 0; b < this.nBeams; b++) failing[count++] = b;
+    }
+    const failsAt = (delta: number): number => {
+      if (!this.factorAt(covs, off, delta)) return count;
+      let still = 0;
+      for (let i = 0; i < count; i++) {
+        const b = failing[i];
+        if (1 / this.weightsInto(this.z, 0, b, true) < target) failing[still++] = b;
+      }
+      return still;
+    };
+    let lo = scale * 1e-12;
+    let hi = scale;
+    for (;;) {
+      const c = failsAt(hi);
+      if (c === 0) break;
+      count = c;
+      lo = hi;
+      hi *= 10;
+      if (hi > scale * 1e15) return Infinity;
+    }
+    while (hi / lo > WNG_BISECTION_RATIO) {
+      const mid = Math.sqrt(lo * hi);
+      const c = failsAt(mid);
+      if (c === 0) hi = mid;
+      else {
+        lo = mid;
+        count = c;
+      }
+    }
+    return hi;
+  }
+
+  private fillSteering(dst: Float64Array, base: number, f: number): void {
+    const n = this.channels;
+    const freq = this.setup.binFreqsHz[f];
+    for (let b = 0; b < this.nBeams; b++) {
+      steeringFromLeads(dst, this.leads.subarray(b * n, (b + 1) * n), freq, n, base + b * 2 * n);
+    }
+  }
+
+  /** Points vBuf/vBase at bin f's steering vectors (table slice or freshly computed scratch). */
+  private selectSteering(f: number): void {
+    if (this.steerTable) {
+      this.vBuf = this.steerTable;
+      this.vBase = f * this.nBeams * 2 * this.channels;
+    } else {
+      this.fillSteering(this.steerScratch, 0, f);
+      this.vBuf = this.steerScratch;
+      this.vBase = 0;
+    }
+  }
+}
+
+/** wᴴ·R·w for Hermitian R (upper triangle read), real result. */
+export function hermitianForm(r: Float64Array, rOff: number, w: Float64Array, wOff: number, n: number): number {
+  let diag = 0;
+  let cross = 0;
+  for (let i = 0; i < n; i++) {
+    const row = rOff + 2 * i * n;
+    const wr = w[wOff + 2 * i];
+    const wi = w[wOff + 2 * i + 1];
+    diag += r[row + 2 * i] * (wr * wr + wi * wi);
+    // t = Σ_{j>i} R_ij·w_j ; cross += Re(conj(w_i)·t)
+    let tr = 0;
+    let ti = 0;
+    for (let j = i + 1; j < n; j++) {
+      const ar = r[row + 2 * j];
+      const ai = r[row + 2 * j + 1];
+      const xr = w[wOff + 2 * j];
+      const xi = w[wOff + 2 * j + 1];
+      tr += ar * xr - ai * xi;
+      ti += ar * xi + ai * xr;
+    }
+    cross += wr * tr + wi * ti;
+  }
+  return diag + 2 * cross;
+}
