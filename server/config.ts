@@ -28,6 +28,7 @@ const envSchema = z.object({
     .min(1, 'must be at least 1')
     .default(Math.max(1, os.cpus().length - 1)),
   DEMO_DATA: z.enum(['on', 'off'], { error: 'must be "on" or "off"' }).default('on'),
+  RESULTS_DIR: z.string().min(1, 'must be a folder path (shared by every node when scaling out)').optional(),
   TRUST_PROXY: z
     .string()
     .regex(/^(off|on|\d{1,2}|[0-9a-fA-F.:/, ]+)$/, 'must be "off", "on", a hop count such as 1, or proxy addresses/CIDRs separated by commas')
@@ -50,6 +51,8 @@ export type AppConfig = {
   logLevel: string;
   workerConcurrency: number;
   demoData: boolean;
+  /** Job result files: DATA_DIR/results unless RESULTS_DIR names a path shared by all nodes. */
+  resultsDir: string;
   /** Express 'trust proxy' value: false, true, a hop count or a list of proxy addresses. */
   trustProxy: boolean | number | string;
   /** Secure flag of the session and CSRF cookies; 'auto' sets it when the request came over HTTPS (needs TRUST_PROXY behind a proxy). */
@@ -84,6 +87,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): AppConfig {
     logLevel: e.LOG_LEVEL,
     workerConcurrency: e.WORKER_CONCURRENCY,
     demoData: e.DEMO_DATA === 'on',
+    resultsDir: path.resolve(e.RESULTS_DIR ?? path.join(e.DATA_DIR, 'results')),
     trustProxy: parseTrustProxy(e.TRUST_PROXY),
     cookieSecure: e.COOKIE_SECURE === 'auto' ? 'auto' : e.COOKIE_SECURE === 'on',
     sessionMaxAgeMs: Math.round(e.SESSION_MAX_AGE_HOURS * 3_600_000),
