@@ -5,7 +5,11 @@ import { trainingPlan } from './training-plan.js';
 
 /** What validation needs to know about a recording: its shape plus its channel count. */
 export interface RecordingInfo extends RecordingShape {
-  channels: number;
+  /**
+   * Channels in the file. null when the samples are already routed to the array's elements
+   * (a FrameSource in the job runner), which skips the channel-map check.
+   */
+  channels: number | null;
 }
 
 /**
@@ -34,7 +38,7 @@ export function validateParamsAgainstRecording(params: BeamformParams, rec: Reco
   const active = array.elements.map((e, i) => ({ e, i })).filter(({ e }) => !e.excluded);
   const n = active.length;
   for (const { e, i } of active) {
-    if (e.channel >= rec.channels) {
+    if (rec.channels !== null && e.channel >= rec.channels) {
       add(['array', 'elements', i, 'channel'], `element ${i} reads channel ${e.channel}, but the recording has ${rec.channels} channel${rec.channels === 1 ? '' : 's'} (numbered from 0); fix the array's channel map or pick the right recording`);
     }
   }
@@ -101,7 +105,7 @@ export function validateParamsAgainstRecording(params: BeamformParams, rec: Reco
       if (trainingRec.complex !== rec.complex) add(['trainingRecording'], 'the training recording and the recording must both be real or both be complex baseband');
       if (rec.complex && trainingRec.centerFrequencyHz !== rec.centerFrequencyHz) add(['trainingRecording', 'centerFrequencyHz'], 'the training recording was captured at another centre frequency');
       const maxCh = active.reduce((m, { e }) => Math.max(m, e.channel), 0);
-      if (maxCh >= trainingRec.channels) add(['trainingRecording', 'channels'], `the array reads channel ${maxCh}, but the training recording has only ${trainingRec.channels} channels`);
+      if (trainingRec.channels !== null && maxCh >= trainingRec.channels) add(['trainingRecording', 'channels'], `the array reads channel ${maxCh}, but the training recording has only ${trainingRec.channels} channels`);
       if (bf.training.range) checkRange(['beamformer', 'training', 'range'], bf.training.range, trainingRec.totalFrames / trainingRec.sampleRate, 'the training span');
     }
   }
@@ -115,15 +119,15 @@ export function validateParamsAgainstRecording(params: BeamformParams, rec: Reco
     if (bf.kind === 'mvdr') {
       const ka = plan.weights?.frames ?? 0;
       const ke = plan.evaluation?.frames ?? 0;
-      if (ka < 1 || ke < 1) {
-        add(path, `the training span gives ${ka + ke} usable frames; it needs at least 2 (one to build the weights, one to evaluate the noise power) — lengthen it to well over ${fmt((2 * params.nfft) / fs)} s`);
+      if (ka < 1 || ke < 2) {
+        add(path, `the training span gives ${ka + ke} usable frames; it needs at least 3 (the first half builds the weights, the second half, at least 2 frames, evaluates the noise power) — lengthen it to well over ${fmt((4 * params.nfft) / fs)} s`);
       } else if (unloaded && ka < n) {
         add(path, `the first half of the training span gives ${ka} snapshots, fewer than the N = ${n} elements, so the noise covariance cannot be inverted without loading; lengthen the span (≥ ${fmt(((2 * n + 1) * params.hop + params.nfft) / fs, 2)} s) or add diagonal loading`);
       }
       const biggest = Math.max(ka, ke) * nBins * n * 16;
       if (biggest > MAX_TRAINING_BLOCK_BYTES) add(path, `the training span is too long to hold in memory (${Math.round(biggest / 2 ** 20)} MB per half for ${nBins} bins × ${n} elements; the limit is ${MAX_TRAINING_BLOCK_BYTES / 2 ** 20} MB); shorten it`);
     } else if (plan.evaluation) {
-      if (plan.evaluation.frames < 1) add(path, `the noise-only span is shorter than one frame (${fmt(params.nfft / fs)} s); lengthen it`);
+      if (plan.evaluation.frames < 2) add(path, `the noise-only span gives ${plan.evaluation.frames} frame${plan.evaluation.frames === 1 ? '' : 's'}; the noise-power estimate needs at least 2 (${fmt((params.nfft + params.hop) / fs)} s); lengthen it`);
       const bytes = plan.evaluation.frames * nBins * n * 16;
       if (bytes > MAX_TRAINING_BLOCK_BYTES) add(path, `the noise-only span is too long to hold in memory (${Math.round(bytes / 2 ** 20)} MB); shorten it`);
     }
