@@ -5,8 +5,11 @@
  */
 
 /**
- * Measured engine cost per (window, bin) at N = 32, K = 64, 91 beams (bench/dsp-engine.ts,
- * MPDR, trace loading), in microseconds. Scales roughly with N²·(K + beams) + N³.
+ * Engine cost per (window, bin) at N = 32, K = 64, 91 beams (bench/dsp-engine.ts, MPDR, trace
+ * loading), in microseconds. First measurement: 3500–3900 µs on a 2-core machine with a load
+ * average of ≈ 15 (about seven busy processes per core); 1000 µs is our estimate for one
+ * unloaded core from that. Re-measure with `node --import tsx bench/dsp-engine.ts` on the
+ * deployment machine and pass the result in. Scales roughly with N²·(K + beams) + N³.
  */
 export const REFERENCE_US_PER_WINDOW_BIN = 1000;
 const REFERENCE = { n: 32, k: 64, beams: 91 };
