@@ -1,5 +1,7 @@
 import type http from 'node:http';
 import type { AppContext } from './context.js';
+import { computePlugin } from './nodes/compute-plugin.js';
+import { queuePlugin } from './nodes/queue-plugin.js';
 
 /**
  * A part of the server with a life cycle (compute pool, job node, live channel, mailer).
@@ -16,4 +18,4 @@ export interface ServerPlugin {
 }
 
 /** Add one line per plugin (keep the import sorted with the others). */
-export const serverPlugins: ServerPlugin[] = [];
+export const serverPlugins: ServerPlugin[] = [computePlugin, queuePlugin];

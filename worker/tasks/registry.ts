@@ -5,6 +5,7 @@ import type { ComputeTask } from './compute-task.js';
  * code of the tasks it runs. Add one line per task module (worker/tasks/<kind>.ts).
  */
 const LOADERS: Record<string, () => Promise<ComputeTask>> = {
+  beamform: async () => (await import('./beamform.js')).beamformTask as ComputeTask,
   'file-digest': async () => (await import('./file-digest.js')).fileDigestTask as ComputeTask,
   inspect: async () => (await import('./inspect.js')).inspectTask as ComputeTask,
 };
