@@ -119,6 +119,10 @@ describe('sign-in in the browser', function () {
     await nav.getByRole('link', { name: 'Admin' }).click();
     await page.waitForURL(`${server.url}/admin`);
     await page.getByRole('heading', { name: 'Admin', level: 1 }).waitFor();
+    // The accounts table comes from GET /api/users: the three demo accounts.
+    const table = page.getByRole('table');
+    await table.getByRole('cell', { name: 'analyst@demo.nullsmith' }).waitFor();
+    expect(await table.getByRole('row').count()).to.equal(4);
     expect((await page.getByTestId('signed-in-role').innerText()).toLowerCase()).to.equal('admin');
     await b.screenshot('shell-admin');
     expect(unexpectedProblems(b)).to.deep.equal([]);
@@ -134,6 +138,8 @@ describe('sign-in in the browser', function () {
     expect(await recordingsLink.isVisible()).to.equal(false);
     await page.getByRole('button', { name: 'Open navigation' }).click();
     await recordingsLink.waitFor({ state: 'visible' });
+    // Let the drawer finish sliding in before the picture is taken.
+    await page.waitForFunction(() => document.querySelector('#ns-navigation')?.getBoundingClientRect().left === 0);
     await b.screenshot('shell-narrow-drawer');
     await recordingsLink.click();
     await page.waitForURL(`${server.url}/recordings`);

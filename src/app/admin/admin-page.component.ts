@@ -1,16 +1,14 @@
 import { ChangeDetectionStrategy, Component } from '@angular/core';
-import { EmptyStateComponent } from '../ui/empty-state.component';
 import { PageHeaderComponent } from '../ui/page-header.component';
+import { UserListComponent } from './user-list.component';
 
-/** /admin: Accounts, roles and the machines that run jobs. */
+/** /admin (admin role): accounts now; compute nodes and the mail outbox join them here. */
 @Component({
   selector: 'ns-admin-page',
-  imports: [EmptyStateComponent, PageHeaderComponent],
+  imports: [PageHeaderComponent, UserListComponent],
   template: `
     <ns-page-header heading="Admin" summary="Accounts, roles and the machines that run jobs." />
-    <ns-empty-state icon="admin_panel_settings" headline="Nothing to administer yet">
-      Account and role management, compute node status and the mail outbox will appear here.
-    </ns-empty-state>
+    <ns-user-list />
   `,
   changeDetection: ChangeDetectionStrategy.OnPush,
 })

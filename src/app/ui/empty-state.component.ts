@@ -24,7 +24,7 @@ import { MatIconModule } from '@angular/material/icon';
       padding: 56px 24px;
       border: 1px dashed var(--mat-sys-outline-variant);
       border-radius: 16px;
-      background: var(--mat-sys-surface);
+      background: var(--mat-sys-surface-container-low);
     }
     .glyph {
       width: 56px;
