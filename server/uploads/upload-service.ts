@@ -9,7 +9,9 @@ import type { AppDb } from '../db/client.js';
 import { recordings } from '../db/schema/recordings.js';
 import { uploadChunks, uploads, type UploadRow } from '../db/schema/uploads.js';
 import { HttpError, badRequest, conflict, notFound } from '../http/http-error.js';
+import type { RecordingFormat } from '../../shared/api/recordings.js';
 import { ChunkLengthError, writeChunkAt } from './chunk-writer.js';
+import { checkSidecar, checkWavHeaderInPart } from './header-check.js';
 import { recordingDir, safeFileName, uploadPartPath } from './upload-paths.js';
 import { formatBytes, type UploadLimits } from './upload-limits.js';
 
@@ -20,6 +22,8 @@ export interface ChunkTarget {
   index: number;
   start: number;
   length: number;
+  sizeBytes: number;
+  format: RecordingFormat;
 }
 
 export interface UploadServiceDeps {
@@ -47,6 +51,7 @@ export class UploadService {
         ? `${req.name} is SigMF data: send its .sigmf-meta file as the side file of the session (sidecar).`
         : `${req.name} is raw binary: send its JSON side file (sample rate, channels, datatype) as the side file of the session (sidecar).`);
     }
+    if (req.sidecar && (req.format === 'sigmf' || req.format === 'raw')) checkSidecar(req.format, req.sidecar, req.sizeBytes, req.sidecarName ?? req.name);
     const used = await this.bytesUsedBy(userId);
     if (used + req.sizeBytes > limits.quotaBytes) {
       throw new HttpError(507, 'quota_exceeded', `Your storage quota is ${formatBytes(limits.quotaBytes)}; you already use ${formatBytes(used)} (recordings plus unfinished uploads), so ${req.name} (${formatBytes(req.sizeBytes)}) does not fit. Delete recordings or cancel unfinished uploads, or ask an administrator to raise UPLOAD_QUOTA_BYTES.`);
@@ -113,7 +118,7 @@ export class UploadService {
       throw badRequest(`Chunk index ${index} is outside this upload, which has chunks 0 to ${row.chunkCount - 1}.`);
     }
     const { start, length } = chunkRange(index, row.chunkBytes, row.sizeBytes);
-    return { uploadId: id, name: row.name, partPath: row.partPath, index, start, length };
+    return { uploadId: id, name: row.name, partPath: row.partPath, index, start, length, sizeBytes: row.sizeBytes, format: row.declaredFormat };
   }
 
   /** Streams a chunk's bytes to its offset (fsynced); the chunk is not acknowledged yet. */
@@ -141,6 +146,16 @@ export class UploadService {
     }
     if (claimed !== stored.sha256) {
       throw new HttpError(422, 'chunk_checksum_mismatch', `Chunk ${t.index} was damaged on the way: you sent sha256 ${claimed} but the bytes received hash to ${stored.sha256}. The chunk was not kept; send it again.`, { index: t.index, expected: claimed, received: stored.sha256 });
+    }
+    if (t.index === 0 && (t.format === 'wav' || t.format === 'rf64')) {
+      try {
+        await checkWavHeaderInPart(t.partPath, stored.bytes, t.sizeBytes, t.name);
+      } catch (err) {
+        // The file itself is unreadable: no later chunk can fix it, so the session ends here.
+        if (!(err instanceof HttpError)) throw err;
+        await this.discard(t.uploadId, t.partPath);
+        throw new HttpError(err.status, err.code, `${err.message} The upload was stopped and its partial file removed; fix the file and upload it again.`, err.details);
+      }
     }
     const [row] = await this.deps.db.select({ state: uploads.state }).from(uploads).where(eq(uploads.id, t.uploadId));
     if (row?.state !== 'receiving') throw conflict(`Upload ${t.name} was ${row?.state ?? 'removed'} while this chunk arrived; the chunk was not kept.`);
@@ -212,9 +227,13 @@ export class UploadService {
     if (row.state === 'complete') {
       throw conflict(`Upload ${row.name} already finished and became recording ${row.recordingId}; delete the recording instead.`);
     }
+    await this.discard(id, row.partPath);
+  }
+
+  private async discard(id: string, partPath: string): Promise<void> {
     await this.deps.db.update(uploads).set({ state: 'cancelled', updatedAt: new Date() }).where(eq(uploads.id, id));
     await this.deps.db.delete(uploadChunks).where(eq(uploadChunks.uploadId, id));
-    await fs.rm(row.partPath, { force: true });
+    await fs.rm(partPath, { force: true });
   }
 
   /** Completed sessions whose file move a crash interrupted: finish the move (start-up). */

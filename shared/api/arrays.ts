@@ -1,12 +1,13 @@
 import { z } from 'zod';
 import { arrayGeometrySchema, type ArrayGeometry } from '../arrays/array-geometry.js';
+import { SPEED_PRESETS } from '../physics/sound-speed.js';
 
-/** Speed-of-sound presets of CONVENTIONS.md, in m/s. */
+/** Speed-of-sound presets of CONVENTIONS.md, in m/s, with the labels the array form shows. */
 export const MEDIUM_PRESETS = {
-  'sea-water': { label: 'Sea water', speedMps: 1500 },
-  'fresh-water': { label: 'Fresh water (20 °C)', speedMps: 1481 },
-  air: { label: 'Air (20 °C)', speedMps: 343 },
-  radio: { label: 'Radio (free space)', speedMps: 299_792_458 },
+  'sea-water': { label: 'Sea water', speedMps: SPEED_PRESETS.sea },
+  'fresh-water': { label: 'Fresh water (20 °C)', speedMps: SPEED_PRESETS.fresh },
+  air: { label: 'Air (20 °C)', speedMps: SPEED_PRESETS.air },
+  radio: { label: 'Radio (free space)', speedMps: SPEED_PRESETS.radio },
 } as const;
 export type MediumPreset = keyof typeof MEDIUM_PRESETS;
 

@@ -96,3 +96,59 @@ export const recordingPatchSchema = z
   })
   .strict();
 export type RecordingPatch = z.infer<typeof recordingPatchSchema>;
+
+/** An archive root: a server folder whose files are registered in place (admins configure them). */
+export interface ArchiveRoot {
+  id: number;
+  name: string;
+  path: string;
+  notes: string;
+  createdAt: string;
+  recordingCount: number;
+  /** False when the folder is gone or unreadable now. */
+  reachable: boolean;
+}
+
+export const archiveRootRequestSchema = z.object({
+  name: z.string().trim().min(1, 'Give the archive folder a name.').max(200, 'Names are at most 200 characters.'),
+  path: z.string().trim().min(1, 'Give the folder path on the server.').max(4000, 'Paths are at most 4000 characters.'),
+  notes: z.string().max(2000).optional(),
+});
+export type ArchiveRootRequest = z.infer<typeof archiveRootRequestSchema>;
+
+export interface ArchiveEntry {
+  name: string;
+  /** Path relative to the root. */
+  path: string;
+  kind: 'file' | 'folder';
+  sizeBytes: number;
+  format: RecordingFormat | null;
+  /** Set when the entry is listed but may not be registered (e.g. a link leaving the root). */
+  refused?: string;
+  /** Set when the file is already registered. */
+  recordingId?: number;
+}
+
+export interface ArchiveListing {
+  rootId: number;
+  path: string;
+  entries: ArchiveEntry[];
+}
+
+/** POST /api/archives/:id/register: files by path, or a folder by pattern (recursively if asked). */
+export const archiveRegisterSchema = z
+  .object({
+    paths: z.array(z.string().min(1).max(4000)).max(2000, 'Register at most 2000 files at a time.').optional(),
+    folder: z.string().max(4000).optional(),
+    pattern: z.string().max(200).optional(),
+    recursive: z.boolean().optional(),
+  })
+  .refine((r) => (r.paths && r.paths.length > 0) || r.folder !== undefined, {
+    message: 'Name files to register (paths) or a folder with a pattern (folder, pattern, recursive).',
+  });
+export type ArchiveRegisterRequest = z.infer<typeof archiveRegisterSchema>;
+
+export interface ArchiveRegisterResult {
+  registered: { id: number; name: string; path: string }[];
+  refused: { path: string; reason: string }[];
+}
