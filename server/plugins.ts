@@ -2,6 +2,7 @@ import type http from 'node:http';
 import type { AppContext } from './context.js';
 import { computePlugin } from './nodes/compute-plugin.js';
 import { queuePlugin } from './nodes/queue-plugin.js';
+import { recordingsPlugin } from './recordings/recordings-plugin.js';
 
 /**
  * A part of the server with a life cycle (compute pool, job node, live channel, mailer).
@@ -18,4 +19,4 @@ export interface ServerPlugin {
 }
 
 /** Add one line per plugin (keep the import sorted with the others). */
-export const serverPlugins: ServerPlugin[] = [computePlugin, queuePlugin];
+export const serverPlugins: ServerPlugin[] = [computePlugin, queuePlugin, recordingsPlugin];

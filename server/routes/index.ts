@@ -1,7 +1,11 @@
 import type { Router } from 'express';
 import type { AppContext } from '../context.js';
+import { archivesRouter } from './archives.router.js';
+import { arraysRouter } from './arrays.router.js';
 import { authRouter } from './auth.router.js';
 import { healthRouter } from './health.router.js';
+import { recordingsRouter } from './recordings.router.js';
+import { uploadsRouter } from './uploads.router.js';
 import { usersRouter } from './users.router.js';
 
 export interface RouteMount {
@@ -19,5 +23,9 @@ export function apiRoutes(ctx: AppContext): RouteMount[] {
     { path: '/api/health', router: healthRouter(ctx) },
     { path: '/api/auth', router: authRouter(ctx) },
     { path: '/api/users', router: usersRouter(ctx) },
+    { path: '/api/uploads', router: uploadsRouter(ctx) },
+    { path: '/api/recordings', router: recordingsRouter(ctx) },
+    { path: '/api/arrays', router: arraysRouter(ctx) },
+    { path: '/api/archives', router: archivesRouter(ctx) },
   ];
 }
