@@ -19,6 +19,7 @@ import { loadConfig } from '../../../server/config.js';
 import type { AppContext } from '../../../server/context.js';
 import { users } from '../../../server/db/schema/index.js';
 import { startServer, type RunningServer } from '../../../server/main.js';
+import type { Logger } from '../../../server/logger.js';
 import type { ServerPlugin } from '../../../server/plugins.js';
 
 export interface TestServerOptions {
@@ -28,6 +29,8 @@ export interface TestServerOptions {
   env?: Record<string, string>;
   /** Plugins to run instead of the registered list (default: the registered list). */
   plugins?: ServerPlugin[];
+  /** A logger of your own (e.g. to capture log lines); default: errors only, to stderr. */
+  logger?: Logger;
   /** Force the database on disk in the temp DATA_DIR even without `dataDir` (default: in memory). */
   diskDatabase?: boolean;
 }
@@ -61,7 +64,7 @@ export async function startTestServer(opts: TestServerOptions = {}): Promise<Tes
   });
   let running: RunningServer;
   try {
-    running = await startServer(config, { plugins: opts.plugins, memoryDatabase: ownDir && !opts.diskDatabase });
+    running = await startServer(config, { plugins: opts.plugins, logger: opts.logger, memoryDatabase: ownDir && !opts.diskDatabase });
   } catch (err) {
     if (ownDir) fs.rmSync(dataDir, { recursive: true, force: true });
     throw err;
