@@ -12,3 +12,8 @@ export * from './archive-roots.js';
 export * from './arrays.js';
 export * from './recordings.js';
 export * from './uploads.js';
+export * from './mail.js';
+export * from './api-tokens.js';
+export * from './account-links.js';
+export * from './user-preferences.js';
+export * from './retention.js';
