@@ -164,7 +164,7 @@ async function main(): Promise<number> {
     process.stderr.write(`resuming at window ${resumeFrom} of ${header.timing.windows}\n`);
   }
 
-  const progress = new ProgressLine();
+  let progress = new ProgressLine();
   const inputs = await checksums(
     [
       { role: 'recording', path: rec.dataPath },
@@ -184,6 +184,8 @@ async function main(): Promise<number> {
   };
   process.once('SIGINT', onSigint);
 
+  // A fresh line per phase, so each phase shows its first progress at once.
+  progress = new ProgressLine();
   const options = frameSourceOptionsFromArray(array);
   const source: FrameSource = await openFrameSource(rec.dataPath, rec.description, options);
   const trainingSource = training ? await openFrameSource(training.dataPath, training.description, options) : undefined;
@@ -221,6 +223,7 @@ async function main(): Promise<number> {
   progress.done(`beamformed ${result.totalWindows} windows (${timing.frames} frames) in ${clock(progress.elapsedS())}`);
 
   const plain = o['plain-csv'];
+  progress = new ProgressLine();
   await writeCsv(path.join(outDir, 'weights.csv'), async () => (result.header.setup.savedBeams.length ? createWeightsCsvStream(outDir, { comments: !plain }) : emptyWeights(plain)), progress);
   await writeCsv(path.join(outDir, 'sinr.csv'), () => createSinrCsvStream(outDir, { comments: !plain }), progress);
   progress.done(`wrote ${path.join(outDir, HEADER_FILE)}, weights.csv and sinr.csv`);
