@@ -139,7 +139,7 @@ describe('sign-in in the browser', function () {
     await page.getByRole('button', { name: 'Open navigation' }).click();
     await recordingsLink.waitFor({ state: 'visible' });
     // Let the drawer finish sliding in before the picture is taken.
-    await page.waitForFunction(() => document.querySelector('#ns-navigation')?.getBoundingClientRect().left === 0);
+    await page.waitForFunction("document.querySelector('#ns-navigation')?.getBoundingClientRect().left === 0");
     await b.screenshot('shell-narrow-drawer');
     await recordingsLink.click();
     await page.waitForURL(`${server.url}/recordings`);
