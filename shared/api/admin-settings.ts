@@ -32,9 +32,13 @@ export const adminSettingsSchema = z.object({
 export type AdminSettings = z.infer<typeof adminSettingsSchema>;
 
 /** PATCH /api/settings body: any subset. */
-export const adminSettingsPatchSchema = adminSettingsSchema
-  .partial()
-  .strict({ error: (issue) => `Unknown setting ${issue.code === 'unrecognized_keys' ? issue.keys.join(', ') : ''}; the settings are maxUploadBytes, userQuotaBytes, resultRetentionDays and workerConcurrency.` })
+export const adminSettingsPatchSchema = z
+  .strictObject(adminSettingsSchema.partial().shape, {
+    error: (issue) =>
+      issue.code === 'unrecognized_keys'
+        ? `Unknown setting ${issue.keys.join(', ')}; the settings are maxUploadBytes, userQuotaBytes, resultRetentionDays and workerConcurrency.`
+        : 'Send the settings as a JSON object.',
+  })
   .refine((p) => p.maxUploadBytes === undefined || p.userQuotaBytes === undefined || p.maxUploadBytes <= p.userQuotaBytes, {
     message: 'The maximum upload size cannot be larger than the per-user quota: no upload of that size could ever fit.',
     path: ['maxUploadBytes'],

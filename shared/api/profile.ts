@@ -9,10 +9,11 @@ export const profileSchema = z.object({
 });
 export type Profile = z.infer<typeof profileSchema>;
 
-export const profilePatchSchema = z
-  .object({
+export const profilePatchSchema = z.strictObject(
+  {
     dailyDigest: z.boolean({ error: 'dailyDigest must be true or false.' }).optional(),
     displayName: z.string().trim().min(1, 'Your display name cannot be empty.').max(100, 'Display names are at most 100 characters.').optional(),
-  })
-  .strict({ error: 'Only dailyDigest and displayName can be changed here.' });
+  },
+  { error: (i) => (i.code === 'unrecognized_keys' ? 'Only dailyDigest and displayName can be changed here.' : 'Send a JSON object.') },
+);
 export type ProfilePatch = z.infer<typeof profilePatchSchema>;

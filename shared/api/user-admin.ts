@@ -21,13 +21,17 @@ export const createUserSchema = z.object({
 export type CreateUserRequest = z.infer<typeof createUserSchema>;
 
 /** PATCH /api/users/:id: any subset. */
-export const updateUserSchema = z
-  .object({
+export const updateUserSchema = z.strictObject(
+  {
     role: roleSchema.optional(),
     disabled: z.boolean({ error: 'disabled must be true or false.' }).optional(),
     displayName: z.string().trim().min(1, 'Names cannot be empty.').max(100, 'Names are at most 100 characters.').optional(),
-  })
-  .strict({ error: 'Only role, disabled and displayName can be changed here; passwords go through reset-password.' });
+  },
+  {
+    error: (i) =>
+      i.code === 'unrecognized_keys' ? 'Only role, disabled and displayName can be changed here; passwords go through reset-password.' : 'Send a JSON object.',
+  },
+);
 export type UpdateUserRequest = z.infer<typeof updateUserSchema>;
 
 /** POST /api/users/:id/reset-password: set a password now, or (empty body) mail a one-time link. */
