@@ -173,3 +173,33 @@ describe('sessions survive a restart on the same DATA_DIR', function () {
     }
   });
 });
+
+describe('sign-in and sessions on PostgreSQL (scale-out mode)', function () {
+  this.timeout(300_000);
+  before(function () {
+    if (!process.env.TEST_DATABASE_URL) this.skip(); // set by .ci/run, which starts a PostgreSQL server
+  });
+
+  it('signs in, keeps the session across a restart and reports the postgres driver', async () => {
+    const { createTestDatabaseUrl } = await import('./helpers/queue-databases.js');
+    const { url, drop } = await createTestDatabaseUrl();
+    try {
+      let server = await startTestServer({ env: { DATABASE_URL: url } });
+      const c = await server.signIn('operations');
+      const health = (await c.getJson('/api/health')) as { database: string };
+      expect(health.database).to.equal('postgres');
+      await server.close();
+      server = await startTestServer({ env: { DATABASE_URL: url } });
+      try {
+        c.baseUrl = server.url;
+        expect(sessionResponseSchema.parse(await c.getJson('/api/auth/me')).user.role).to.equal('operations');
+        expect((await c.post('/api/auth/logout')).status).to.equal(204);
+        expect((await c.get('/api/auth/me')).status).to.equal(401);
+      } finally {
+        await server.close();
+      }
+    } finally {
+      await drop();
+    }
+  });
+});
