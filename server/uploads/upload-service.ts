@@ -54,7 +54,7 @@ export class UploadService {
     if (req.sidecar && (req.format === 'sigmf' || req.format === 'raw')) checkSidecar(req.format, req.sidecar, req.sizeBytes, req.sidecarName ?? req.name);
     const used = await this.bytesUsedBy(userId);
     if (used + req.sizeBytes > limits.quotaBytes) {
-      throw new HttpError(507, 'quota_exceeded', `Your storage quota is ${formatBytes(limits.quotaBytes)}; you already use ${formatBytes(used)} (recordings plus unfinished uploads), so ${req.name} (${formatBytes(req.sizeBytes)}) does not fit. Delete recordings or cancel unfinished uploads, or ask an administrator to raise UPLOAD_QUOTA_BYTES.`);
+      throw new HttpError(413, 'quota_exceeded', `Your storage quota is ${formatBytes(limits.quotaBytes)}; you already use ${formatBytes(used)} (recordings plus unfinished uploads), so ${req.name} (${formatBytes(req.sizeBytes)}) does not fit. Delete recordings or cancel unfinished uploads, or ask an administrator to raise UPLOAD_QUOTA_BYTES.`);
     }
     await fs.mkdir(path.join(dataDir, 'uploads'), { recursive: true });
     const free = await freeBytes(path.join(dataDir, 'uploads'));
