@@ -1,10 +1,10 @@
-import { desc, isNull, or, sql } from 'drizzle-orm';
+import { and, desc, isNull, or, sql } from 'drizzle-orm';
 import type { WorkerNode } from '../../shared/api/jobs.js';
 import type { AppDb } from '../db/client.js';
 import { nodes } from '../db/schema/nodes.js';
 
 /**
- * Nodes that run now or stopped within the last day, newest heartbeat first. `alive` means a
+ * Nodes heard from within the last day, newest heartbeat first. `alive` means a
  * heartbeat within `staleAfterMs` (the database clock decides, not this machine's).
  */
 export async function listNodes(db: AppDb, staleAfterMs: number): Promise<WorkerNode[]> {
@@ -14,7 +14,7 @@ export async function listNodes(db: AppDb, staleAfterMs: number): Promise<Worker
       ageS: sql<number>`extract(epoch from (now() - ${nodes.heartbeatAt}))::float8`,
     })
     .from(nodes)
-    .where(or(isNull(nodes.stoppedAt), sql`${nodes.stoppedAt} > now() - interval '1 day'`))
+    .where(and(sql`${nodes.heartbeatAt} > now() - interval '1 day'`, or(isNull(nodes.stoppedAt), sql`${nodes.stoppedAt} > now() - interval '1 day'`)))
     .orderBy(desc(nodes.heartbeatAt));
   return rows.map(({ node, ageS }) => ({
     id: node.id,

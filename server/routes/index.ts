@@ -4,9 +4,12 @@ import { archivesRouter } from './archives.router.js';
 import { arraysRouter } from './arrays.router.js';
 import { authRouter } from './auth.router.js';
 import { healthRouter } from './health.router.js';
+import { jobsRouter } from './jobs.router.js';
+import { queueRouter } from './queue.router.js';
 import { recordingsRouter } from './recordings.router.js';
 import { uploadsRouter } from './uploads.router.js';
 import { usersRouter } from './users.router.js';
+import { workersRouter } from './workers.router.js';
 
 export interface RouteMount {
   /** Mount path, always under /api, e.g. '/api/jobs'. */
@@ -27,5 +30,8 @@ export function apiRoutes(ctx: AppContext): RouteMount[] {
     { path: '/api/recordings', router: recordingsRouter(ctx) },
     { path: '/api/arrays', router: arraysRouter(ctx) },
     { path: '/api/archives', router: archivesRouter(ctx) },
+    { path: '/api/jobs', router: jobsRouter(ctx) },
+    { path: '/api/queue', router: queueRouter(ctx) },
+    { path: '/api/workers', router: workersRouter(ctx) },
   ];
 }

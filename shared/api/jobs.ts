@@ -125,5 +125,7 @@ export const workerNodeSchema = z.object({
   concurrency: z.number().int(),
   currentJobIds: z.array(z.number().int()),
   windowsPerSecond: z.number(),
+  /** Compute children of the node answering the request (the others report only their totals). */
+  children: z.array(z.object({ pid: z.number().int(), busy: z.boolean(), task: z.string().optional(), lastHeartbeatAt: z.string() })).optional(),
 });
 export type WorkerNode = z.infer<typeof workerNodeSchema>;

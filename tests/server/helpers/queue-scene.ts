@@ -10,6 +10,7 @@ import { writeToneCombWav } from '../../../bench/scenario-tone-comb.js';
 import type { DatabaseHandle } from '../../../server/db/client.js';
 import { recordings } from '../../../server/db/schema/recordings.js';
 import { lineArray, type ArrayGeometry } from '../../../shared/arrays/array-geometry.js';
+import { readRecordingDescription } from '../../../worker/io/index.js';
 import { beamformParamsSchema, type BeamformParams } from '../../../shared/params/beamform-params.js';
 
 export const SCENE_ARRAY: ArrayGeometry = lineArray({ name: 'queue test line', count: 8, spacingM: 0.5, speedOfSoundMps: 1500 });
@@ -45,7 +46,8 @@ export async function writeSceneWav(dir: string, seconds: number, name = 'scene.
 }
 
 /** Registers the WAV as a ready recording (as inspection would leave it) and returns its id. */
-export async function insertReadyRecording(h: DatabaseHandle, file: string, ownerId: number): Promise<number> {
+export async function insertReadyRecording(h: Pick<DatabaseHandle, 'db'>, file: string, ownerId: number): Promise<number> {
+  const d = await readRecordingDescription('wav', file);
   const [r] = await h.db
     .insert(recordings)
     .values({
@@ -55,8 +57,10 @@ export async function insertReadyRecording(h: DatabaseHandle, file: string, owne
       declaredFormat: 'wav',
       format: 'wav',
       sizeBytes: fs.statSync(file).size,
-      channels: 8,
-      sampleRate: 8000,
+      channels: d.channels,
+      sampleRate: d.sampleRate,
+      sampleFrames: d.frames,
+      durationS: d.frames / d.sampleRate,
       state: 'ready',
       uploadedBy: ownerId,
     })
