@@ -76,6 +76,14 @@ describe('sign-in in the browser', function () {
     expect(await nav.getByRole('link', { name: 'Jobs' }).getAttribute('aria-current')).to.equal('page');
     await b.screenshot('shell-analyst-jobs');
 
+    // Wide screens: the menu button folds the navigation to an icon rail and back.
+    await page.getByRole('button', { name: 'Fold navigation' }).click();
+    await nav.getByText('Recordings').waitFor({ state: 'hidden' });
+    expect(await nav.getByRole('link').count()).to.equal(3);
+    await b.screenshot('shell-folded-rail');
+    await page.getByRole('button', { name: 'Expand navigation' }).click();
+    await nav.getByText('Recordings').waitFor({ state: 'visible' });
+
     // An analyst typing the admin address is turned back with a message naming the role.
     await page.goto(`${server.url}/admin`);
     await page.waitForURL(`${server.url}/jobs`);
@@ -139,7 +147,8 @@ describe('sign-in in the browser', function () {
     await page.getByRole('button', { name: 'Open navigation' }).click();
     await recordingsLink.waitFor({ state: 'visible' });
     // Let the drawer finish sliding in before the picture is taken.
-    await page.waitForFunction("document.querySelector('#ns-navigation')?.getBoundingClientRect().left === 0");
+    const drawer = page.locator('#ns-navigation');
+    for (let tries = 0; (await drawer.boundingBox())?.x !== 0 && tries < 50; tries++) await page.waitForTimeout(50);
     await b.screenshot('shell-narrow-drawer');
     await recordingsLink.click();
     await page.waitForURL(`${server.url}/recordings`);

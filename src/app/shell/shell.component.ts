@@ -78,6 +78,12 @@ export class ShellComponent {
     else this.folded.update((folded) => !folded);
   }
 
+  /** Keyboard users jump past the top bar and navigation (the router owns the URL fragment). */
+  protected skipToContent(event: Event): void {
+    event.preventDefault();
+    document.getElementById('ns-main')?.focus();
+  }
+
   protected async signOut(): Promise<void> {
     this.signingOut.set(true);
     try {
