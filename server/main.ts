@@ -8,8 +8,10 @@ import { ensureSessionSecret } from './auth/session-secret.js';
 import { ConfigError, loadConfig, type AppConfig } from './config.js';
 import type { AppContext } from './context.js';
 import { openDatabase } from './db/client.js';
+import { lockDataDir } from './data-dir-lock.js';
 import { createLogger, type Logger } from './logger.js';
 import { serverPlugins, type ServerPlugin } from './plugins.js';
+import { explainStartupError } from './startup-errors.js';
 
 export interface RunningServer {
   /** e.g. http://127.0.0.1:41234 (the real port when PORT=0). */
@@ -36,29 +38,39 @@ const DRAIN_MS = 5_000;
 export async function startServer(config: AppConfig, options: StartOptions = {}): Promise<RunningServer> {
   const logger = options.logger ?? createLogger(config);
   const plugins = options.plugins ?? serverPlugins;
-  const database = await openDatabase({
-    dataDir: options.memoryDatabase && !config.databaseUrl ? 'memory://' : config.dataDir,
-    databaseUrl: config.databaseUrl,
-  });
+  const inMemory = Boolean(options.memoryDatabase && !config.databaseUrl);
+  // The embedded database on disk has exactly one owner: claim the folder before opening it.
+  const unlock = config.databaseUrl || inMemory ? () => undefined : lockDataDir(config.dataDir);
+  let database: Awaited<ReturnType<typeof openDatabase>>;
+  try {
+    database = await openDatabase({ dataDir: inMemory ? 'memory://' : config.dataDir, databaseUrl: config.databaseUrl });
+  } catch (err) {
+    unlock();
+    throw err;
+  }
+  logger.info(`database ready (${database.kind}${inMemory ? ', in memory' : ''})`);
   const started: ServerPlugin[] = [];
   let server: http.Server | undefined;
+  let ctx: AppContext | undefined;
   try {
     const sessionSecret = await ensureSessionSecret(database.db, config.sessionSecret);
     if (config.demoData) await seedDemoAccounts(database.db, logger);
-    const ctx: AppContext = { config, db: database.db, dbKind: database.kind, logger, sessionSecret, services: {}, startedAt: Date.now() };
+    ctx = { config, db: database.db, dbKind: database.kind, logger, sessionSecret, services: {}, startedAt: Date.now() };
 
     for (const p of plugins) {
       await p.start?.(ctx);
       started.push(p);
     }
     const app = createApp(ctx);
-    authKit(ctx).store.startPruning(SESSION_PRUNE_MS, (err) => logger.warn('could not prune expired sessions', { error: String(err) }));
     const httpServer = http.createServer(app);
     server = httpServer;
     for (const p of plugins) await p.attach?.(ctx, httpServer);
     await listen(httpServer, config.port, config.host);
     const { port } = httpServer.address() as AddressInfo;
     const url = `http://${config.host.includes(':') ? `[${config.host}]` : config.host}:${port}`;
+    const store = authKit(ctx).store;
+    store.startPruning(SESSION_PRUNE_MS, (err) => logger.warn('could not prune expired sessions', { error: String(err) }));
+    const running = ctx;
 
     let closing: Promise<void> | undefined;
     const close = () =>
@@ -68,14 +80,17 @@ export async function startServer(config: AppConfig, options: StartOptions = {})
         const force = setTimeout(() => httpServer.closeAllConnections(), DRAIN_MS);
         await drained;
         clearTimeout(force);
-        await stopPlugins(started, ctx, logger);
-        authKit(ctx).store.stopPruning();
+        store.stopPruning();
+        await stopPlugins(started, running, logger);
         await database.close();
+        unlock();
       })());
-    return { url, ctx, server: httpServer, close };
+    return { url, ctx: running, server: httpServer, close };
   } catch (err) {
     server?.close();
+    if (ctx) await stopPlugins(started, ctx, logger);
     await database.close().catch(() => undefined);
+    unlock();
     throw err;
   }
 }
@@ -117,9 +132,8 @@ async function main(): Promise<void> {
   try {
     running = await startServer(config, { logger });
   } catch (err) {
-    const code = (err as NodeJS.ErrnoException).code;
-    if (code === 'EADDRINUSE') logger.error(`Port ${config.port} on ${config.host} is already in use. Stop the other program or set PORT to a free port (0 picks one).`);
-    else if (code === 'EACCES') logger.error(`Not allowed to listen on ${config.host}:${config.port}. Use a port above 1023 or run with the needed privilege.`);
+    const explained = explainStartupError(err, config);
+    if (explained) logger.error(`Nullsmith could not start: ${explained}`);
     else logger.error('Nullsmith could not start', { error: err instanceof Error ? (err.stack ?? err.message) : String(err) });
     process.exit(1);
   }
