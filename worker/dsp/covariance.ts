@@ -10,29 +10,107 @@
 import type { SnapshotBlock } from './window-engine.types.js';
 
 /**
+ * Channel-major copies of the snapshots being accumulated (re and im planes, N rows of `count`):
+ * module scratch grown on demand, so steady-state calls allocate nothing.
+ */
+let planeRe = new Float64Array(0);
+let planeIm = new Float64Array(0);
+
+/**
  * Adds scale·Σ x·xᴴ over `count` snapshots of one bin to the upper triangle of r (the lower
  * triangle is not touched: call mirrorUpper afterwards). Returns scale·Σ‖x‖⁴ for the same snapshots.
  * `snapOff` is the offset (in doubles) of the first snapshot; snapshots are 2N doubles apart.
+ *
+ * Why this shape: the snapshots are first copied into channel-major re/im planes, then every
+ * R_ij is a dot product over the snapshots kept in local variables, four entries (a 2×2 tile of
+ * rows i, i+1 and columns j, j+1) at a time, so each element of R is written once per call and
+ * each loaded sample feeds two complex multiply-adds. bench/dsp-engine.ts (N = 32, K = 64, 84
+ * bins, CPU time): 251 µs per window-bin for the former snapshot-by-snapshot rank-one updates
+ * (R read and written for every snapshot) against about 40 µs for this form.
  */
 export function accumulateOuterProducts(r: Float64Array, rOff: number, block: Float64Array, snapOff: number, count: number, n: number, scale: number): number {
+  if (planeRe.length < n * count) {
+    planeRe = new Float64Array(n * count);
+    planeIm = new Float64Array(n * count);
+  }
+  const pr = planeRe;
+  const pi = planeIm;
   let fourth = 0;
   for (let k = 0; k < count; k++) {
     const x = snapOff + 2 * n * k;
     let norm2 = 0;
     for (let i = 0; i < n; i++) {
-      const xr = block[x + 2 * i] * scale;
-      const xi = block[x + 2 * i + 1] * scale;
-      norm2 += block[x + 2 * i] * block[x + 2 * i] + block[x + 2 * i + 1] * block[x + 2 * i + 1];
-      const row = rOff + 2 * (i * n);
-      // R_ij += scale·x_i·conj(x_j), j ≥ i
-      for (let j = i; j < n; j++) {
-        const yr = block[x + 2 * j];
-        const yi = block[x + 2 * j + 1];
-        r[row + 2 * j] += xr * yr + xi * yi;
-        r[row + 2 * j + 1] += xi * yr - xr * yi;
-      }
+      const re = block[x + 2 * i];
+      const im = block[x + 2 * i + 1];
+      pr[i * count + k] = re;
+      pi[i * count + k] = im;
+      norm2 += re * re + im * im;
     }
     fourth += norm2 * norm2;
+  }
+  let i = 0;
+  for (; i + 1 < n; i += 2) {
+    const a = i * count;
+    const b = a + count;
+    const row0 = rOff + 2 * i * n;
+    const row1 = row0 + 2 * n;
+    // R_ij += scale·Σ_k x_ik·conj(x_jk) for the 2×2 tiles with j ≥ i.
+    let j = i;
+    for (; j + 1 < n; j += 2) {
+      const c = j * count;
+      const d = c + count;
+      let s00r = 0, s00i = 0, s01r = 0, s01i = 0, s10r = 0, s10i = 0, s11r = 0, s11i = 0;
+      for (let k = 0; k < count; k++) {
+        const ar = pr[a + k], ai = pi[a + k];
+        const br = pr[b + k], bi = pi[b + k];
+        const cr = pr[c + k], ci = pi[c + k];
+        const dr = pr[d + k], di = pi[d + k];
+        s00r += ar * cr + ai * ci;
+        s00i += ai * cr - ar * ci;
+        s01r += ar * dr + ai * di;
+        s01i += ai * dr - ar * di;
+        s10r += br * cr + bi * ci;
+        s10i += bi * cr - br * ci;
+        s11r += br * dr + bi * di;
+        s11i += bi * dr - br * di;
+      }
+      r[row0 + 2 * j] += s00r * scale;
+      r[row0 + 2 * j + 1] += s00i * scale;
+      r[row0 + 2 * j + 2] += s01r * scale;
+      r[row0 + 2 * j + 3] += s01i * scale;
+      if (j > i) {
+        // On the diagonal tile (j = i) entry (i+1, i) is in the lower triangle: not ours to write.
+        r[row1 + 2 * j] += s10r * scale;
+        r[row1 + 2 * j + 1] += s10i * scale;
+      }
+      r[row1 + 2 * j + 2] += s11r * scale;
+      r[row1 + 2 * j + 3] += s11i * scale;
+    }
+    if (j < n) {
+      // Odd N: last column of rows i and i+1.
+      const c = j * count;
+      let s0r = 0, s0i = 0, s1r = 0, s1i = 0;
+      for (let k = 0; k < count; k++) {
+        const ar = pr[a + k], ai = pi[a + k];
+        const br = pr[b + k], bi = pi[b + k];
+        const cr = pr[c + k], ci = pi[c + k];
+        s0r += ar * cr + ai * ci;
+        s0i += ai * cr - ar * ci;
+        s1r += br * cr + bi * ci;
+        s1i += bi * cr - br * ci;
+      }
+      r[row0 + 2 * j] += s0r * scale;
+      r[row0 + 2 * j + 1] += s0i * scale;
+      r[row1 + 2 * j] += s1r * scale;
+      r[row1 + 2 * j + 1] += s1i * scale;
+    }
+  }
+  if (i < n) {
+    // Odd N: the last row has only its diagonal entry in the upper triangle.
+    const a = i * count;
+    let s = 0;
+    for (let k = 0; k < count; k++) s += pr[a + k] * pr[a + k] + pi[a + k] * pi[a + k];
+    r[rOff + 2 * (i * n + i)] += s * scale;
   }
   return fourth * scale;
 }

@@ -16,7 +16,9 @@ import type { EngineSetup, SnapshotBlock, WindowEngine, WindowResult } from './w
 import { blockCovariances } from './covariance.js';
 import { HermitianEigenvalues } from './hermitian-eigen.js';
 import { choleskyFactor, solveLower, solveUpperConjInPlace } from './hermitian-cholesky.js';
-import { elementLeadsS, steeringFromLeads } from './steering.js';
+import { elementLeadsS, lookUnitVector, steeringFromLeads } from './steering.js';
+import { BaselineGroups, groupedQuadraticForm } from './baseline-groups.js';
+import { FourBeamSolver } from './beam-solves.js';
 import { ledoitWolf, medianOfSorted, noiseFloorLoading, traceLoading, traceOf, type LedoitWolf } from './loading.js';
 import { SinrEstimator, sinrUpperBound } from './sinr-estimate.js';
 
@@ -108,6 +110,12 @@ export class BeamformingEngine implements WindowEngine {
   private readonly bbNoise: Float64Array;
   private vBuf: Float64Array;
   private vBase = 0;
+  /** Four-look-direction substitution kernel for the MPDR weights. */
+  private readonly solver: FourBeamSolver;
+  /** Distinct-baseline form of the conventional power (null: per-beam quadratic forms). */
+  private readonly groups: BaselineGroups | null;
+  private readonly groupPhases: Float64Array; // nBins·nBeams·G·2
+  private readonly groupSums: Float64Array; // 2G
 
   // MVDR training state (weights fixed per bin and beam).
   private trained = false;
@@ -147,6 +155,25 @@ export class BeamformingEngine implements WindowEngine {
       this.steerTable = null;
     }
     this.vBuf = this.steerScratch;
+    this.solver = new FourBeamSolver(n);
+    const groups = new BaselineGroups(setup.positionsM, n);
+    const phaseSize = this.nBins * this.nBeams * groups.count * 2;
+    if (groups.worthwhile && phaseSize <= STEERING_TABLE_LIMIT) {
+      this.groups = groups;
+      this.groupPhases = new Float64Array(phaseSize);
+      const units = new Float64Array(3 * this.nBeams);
+      const u = new Float64Array(3);
+      for (let b = 0; b < this.nBeams; b++) {
+        lookUnitVector(u, setup.azimuthsDeg[b], setup.elevationsDeg[b]);
+        units.set(u, 3 * b);
+      }
+      groups.fillPhases(this.groupPhases, setup.binFreqsHz, units, setup.speedMps);
+      this.groupSums = new Float64Array(2 * groups.count);
+    } else {
+      this.groups = null;
+      this.groupPhases = new Float64Array(0);
+      this.groupSums = new Float64Array(0);
+    }
     this.savedSlot = new Int32Array(this.nBeams).fill(-1);
     for (let s = 0; s < setup.savedBeams.length; s++) this.savedSlot[setup.savedBeams[s]] = s;
     this.failing = new Int32Array(this.nBeams);
@@ -257,10 +284,21 @@ export class BeamformingEngine implements WindowEngine {
       const v = this.vBuf;
       // Conventional power vᴴR̂v/N² (valid whether or not R̂ is invertible).
       const invN2 = 1 / (n * n);
-      for (let b = 0; b < nBeams; b++) {
-        const p = hermitianForm(covs, off, v, this.vBase + b * stride, n) * invN2;
-        out.conventionalPower[f * nBeams + b] = p;
-        out.broadbandConventionalPower[b] += p;
+      const groups = this.groups;
+      if (groups) {
+        const trace = groups.sumByGroup(this.groupSums, covs, off);
+        const g = groups.count;
+        for (let b = 0; b < nBeams; b++) {
+          const p = groupedQuadraticForm(trace, this.groupSums, this.groupPhases, (f * nBeams + b) * g * 2, g) * invN2;
+          out.conventionalPower[f * nBeams + b] = p;
+          out.broadbandConventionalPower[b] += p;
+        }
+      } else {
+        for (let b = 0; b < nBeams; b++) {
+          const p = hermitianForm(covs, off, v, this.vBase + b * stride, n) * invN2;
+          out.conventionalPower[f * nBeams + b] = p;
+          out.broadbandConventionalPower[b] += p;
+        }
       }
       // Weights: MVDR uses the trained ones; MPDR factors this window; conventional v/N.
       let delta = 0;
@@ -288,56 +326,99 @@ export class BeamformingEngine implements WindowEngine {
         continue;
       }
       const nSaved = this.setup.savedBeams.length;
+      if (kind === 'mpdr' && Number.isFinite(delta)) {
+        this.mpdrBeams(covs, off, f, delta, floor, out);
+        continue;
+      }
       for (let b = 0; b < nBeams; b++) {
         const i = f * nBeams + b;
         let power: number;
         let norm2: number;
         let wSrc: Float64Array;
         let wOff: number;
-        if (kind === 'conventional' || (kind === 'mpdr' && !Number.isFinite(delta))) {
-          // w = v/N: ‖w‖² = 1/N, output power = conventional power.
+        if (kind !== 'mvdr') {
+          // Conventional, or MPDR with infinite loading: w = v/N: ‖w‖² = 1/N, output power = conventional power.
           norm2 = 1 / n;
           power = out.conventionalPower[i];
           wSrc = v;
           wOff = this.vBase + b * stride;
           this.copySaved(out.weights, f, nSaved, b, wSrc, wOff, 1 / n);
-        } else if (kind === 'mpdr') {
-          const z = this.z;
-          norm2 = this.weightsInto(z, 0, b, true);
-          // wᴴR̂w = wᴴ(R̂+δI)w − δ‖w‖² = 1/(vᴴR_L⁻¹v) − δ‖w‖² (no extra N² pass).
-          power = this.lastCapon - delta * norm2;
-          wSrc = z;
-          wOff = 0;
-          this.copySaved(out.weights, f, nSaved, b, z, 0, 1);
         } else {
+          // MVDR: weights fixed by the training block.
           wSrc = this.trainWeights!;
           wOff = i * stride;
           norm2 = this.trainWeightNorm2[i];
           power = hermitianForm(covs, off, wSrc, wOff, n);
           this.copySaved(out.weights, f, nSaved, b, wSrc, wOff, 1);
         }
-        out.adaptivePower[i] = power;
-        out.wng[i] = 1 / norm2;
-        out.broadbandAdaptivePower[b] += power;
-        if (sinrEst && this.evalCovs) {
-          const pn = kind === 'mvdr' ? this.evalNoisePower![i] : hermitianForm(this.evalCovs, off, wSrc, wOff, n) * (wSrc === v ? 1 / (n * n) : 1);
-          out.sinr[i] = sinrEst.estimate(power, pn);
-          out.sinrLow[i] = sinrEst.lower(power, pn);
-          out.sinrHigh[i] = sinrEst.upper(power, pn);
-          this.bbSignal[b] += sinrEst.biasFactor * power - pn;
-          this.bbNoise[b] += pn;
-        } else {
-          out.sinr[i] = sinrUpperBound(power, floor, norm2);
-          out.sinrLow[i] = NaN;
-          out.sinrHigh[i] = NaN;
-          const noise = floor * norm2;
-          this.bbSignal[b] += power - noise;
-          this.bbNoise[b] += noise;
-        }
+        const pn = sinrEst && this.evalCovs
+          ? kind === 'mvdr' ? this.evalNoisePower![i] : hermitianForm(this.evalCovs, off, wSrc, wOff, n) * (wSrc === v ? 1 / (n * n) : 1)
+          : NaN;
+        this.recordBeam(out, i, b, power, norm2, floor, pn);
       }
     }
     for (let b = 0; b < nBeams; b++) {
       out.broadbandSinr[b] = this.bbNoise[b] > 0 ? this.bbSignal[b] / this.bbNoise[b] : NaN;
+    }
+  }
+
+  /**
+   * MPDR outputs of every look direction of bin f from the factor in this.chol (R̂ + δI), four
+   * beams per FourBeamSolver pass: s = vᴴR_L⁻¹v, u = R_L⁻¹v, w = u/s, ‖w‖² = ‖u‖²/s², and
+   * wᴴR̂w = wᴴ(R̂+δI)w − δ‖w‖² = 1/s − δ‖w‖² (exact, no extra N² pass).
+   */
+  private mpdrBeams(covs: Float64Array, off: number, f: number, delta: number, floor: number, out: WindowResult): void {
+    const n = this.channels;
+    const nBeams = this.nBeams;
+    const stride = 2 * n;
+    const nSaved = this.setup.savedBeams.length;
+    const solver = this.solver;
+    const v = this.vBuf;
+    const base = this.vBase;
+    const last = nBeams - 1;
+    const evalCovs = this.sinrEst ? this.evalCovs : null;
+    solver.setFactor(this.chol);
+    for (let b0 = 0; b0 < nBeams; b0 += 4) {
+      solver.solve(v, base + b0 * stride, base + Math.min(b0 + 1, last) * stride, base + Math.min(b0 + 2, last) * stride, base + Math.min(b0 + 3, last) * stride);
+      const count = Math.min(4, nBeams - b0);
+      for (let t = 0; t < count; t++) {
+        const b = b0 + t;
+        const inv = 1 / solver.zNorm2[t];
+        const norm2 = solver.uNorm2[t] * inv * inv;
+        const slot = this.savedSlot[b];
+        if (slot >= 0) solver.copyU(t, out.weights, (f * nSaved + slot) * stride, inv);
+        let pn = NaN;
+        if (evalCovs) {
+          solver.copyU(t, this.z, 0, inv);
+          pn = hermitianForm(evalCovs, off, this.z, 0, n);
+        }
+        this.recordBeam(out, f * nBeams + b, b, inv - delta * norm2, norm2, floor, pn);
+      }
+    }
+  }
+
+  /**
+   * Writes one beam's adaptive power, WNG and SINR columns and adds to the broadband sums.
+   * `pn` is the evaluation-block noise power P̂n (NaN without an evaluation block: the upper bound is used).
+   */
+  private recordBeam(out: WindowResult, i: number, b: number, power: number, norm2: number, floor: number, pn: number): void {
+    out.adaptivePower[i] = power;
+    out.wng[i] = 1 / norm2;
+    out.broadbandAdaptivePower[b] += power;
+    const sinrEst = this.sinrEst;
+    if (sinrEst && this.evalCovs) {
+      out.sinr[i] = sinrEst.estimate(power, pn);
+      out.sinrLow[i] = sinrEst.lower(power, pn);
+      out.sinrHigh[i] = sinrEst.upper(power, pn);
+      this.bbSignal[b] += sinrEst.biasFactor * power - pn;
+      this.bbNoise[b] += pn;
+    } else {
+      out.sinr[i] = sinrUpperBound(power, floor, norm2);
+      out.sinrLow[i] = NaN;
+      out.sinrHigh[i] = NaN;
+      const noise = floor * norm2;
+      this.bbSignal[b] += power - noise;
+      this.bbNoise[b] += noise;
     }
   }
 
