@@ -6,7 +6,8 @@ export class DataDirBusyError extends Error {
   constructor(dir: string, pid: number) {
     super(
       `Another Nullsmith server (process ${pid}) is already using DATA_DIR ${dir}. The embedded database allows one owner: ` +
-        'stop the other server, or give this one its own DATA_DIR, or use DATABASE_URL with a PostgreSQL server to run several nodes.',
+        'stop the other server, or give this one its own DATA_DIR, or use DATABASE_URL with a PostgreSQL server to run several nodes. ' +
+        `If no Nullsmith server is running, delete ${path.join(dir, 'nullsmith.pid')}.`,
     );
     this.name = 'DataDirBusyError';
   }
