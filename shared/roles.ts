@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** Roles, from least to most privileged. Each role includes everything the previous one may do. */
 export const ROLES = ['analyst', 'operations', 'admin'] as const;

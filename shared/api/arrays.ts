@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { arrayGeometrySchema, type ArrayGeometry } from '../arrays/array-geometry.js';
 import { SPEED_PRESETS } from '../physics/sound-speed.js';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** One audit entry as the API shows it. */
 export const auditEntrySchema = z.object({

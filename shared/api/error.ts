@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** The one error shape every failing API call returns, with a matching HTTP status. */
 export const apiErrorSchema = z.object({

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** GET /api/health (public). */
 export const healthResponseSchema = z.object({

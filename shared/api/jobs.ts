@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * A job's life, in order. The order matters: states before 'running' can still be claimed or

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** A message held by the built-in SMTP receiver (the Outbox). */
 export const outboxMessageSchema = z.object({

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** GET/PATCH /api/profile: the signed-in person's own choices. */
 export const profileSchema = z.object({

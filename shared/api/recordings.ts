@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /** File formats Nullsmith reads (DOMAIN.md §4). 'rf64' covers RF64 and BW64. */
 export const RECORDING_FORMATS = ['wav', 'rf64', 'sigmf', 'raw'] as const;

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * Personal API token scopes: `read` may only look (GET/HEAD); `submit` may also upload

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { recordingFormatSchema } from './recordings.js';
 
 export const UPLOAD_STATES = ['receiving', 'complete', 'cancelled'] as const;

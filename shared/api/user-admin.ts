@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 import { roleSchema } from '../roles.js';
 import { userSummarySchema } from './users.js';
 

@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * An array description as files and the API carry it (array.json for the CLI, the Arrays

@@ -6,7 +6,7 @@
  *   { "sample_rate": 8000, "num_channels": 16, "datatype": "ri16_le", "header_bytes": 0,
  *     "layout": "interleaved", "element_positions_m": [[0,0,0], [0.5,0,0], ...] }
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { MAX_BASEBAND_SAMPLE_RATE_HZ, MAX_CHANNELS, MIN_SAMPLE_RATE_HZ } from './limits.js';
 import { findDuplicatePosition, parseJsonText } from './json-text.js';
 import type { RecordingDescription } from './recording-description.js';

@@ -3,7 +3,7 @@
  * without looking at the header again. The browser shows it before uploading; the server stores
  * it; the worker's frame source reads samples with it.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { MAX_BASEBAND_SAMPLE_RATE_HZ, MAX_CHANNELS, MIN_SAMPLE_RATE_HZ } from './limits.js';
 import { ENCODING_BYTES, SAMPLE_ENCODINGS } from './sample-encoding.js';
 
