@@ -5,6 +5,7 @@ import { JobNode } from './job-node.js';
 import { JobQueue } from './job-queue.js';
 import { nodeTimingFromEnv } from './node-timing.js';
 import { createQueueEvents, type QueueEvents } from './queue-events.js';
+import { RemoteJobWatcher } from './remote-job-watcher.js';
 
 declare module '../context.js' {
   interface AppServices {
@@ -14,6 +15,8 @@ declare module '../context.js' {
     queue?: JobQueue;
     /** This server's own node (the only one in the embedded default). */
     jobNode?: JobNode;
+    /** PostgreSQL mode: publishes jobs run by headless nodes as events here too. */
+    remoteJobWatcher?: RemoteJobWatcher;
   }
 }
 
@@ -43,8 +46,13 @@ export const queuePlugin: ServerPlugin = {
     });
     await node.start();
     ctx.services.jobNode = node;
+    if (ctx.dbKind === 'postgres') {
+      ctx.services.remoteJobWatcher = new RemoteJobWatcher(ctx.db, events, node.id);
+      ctx.services.remoteJobWatcher.start();
+    }
   },
   async stop(ctx) {
+    ctx.services.remoteJobWatcher?.stop();
     await ctx.services.jobNode?.stop();
   },
 };

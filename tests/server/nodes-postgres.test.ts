@@ -16,6 +16,8 @@ import { jobs } from '../../server/db/schema/jobs.js';
 import type { Actor } from '../../server/queue/actor.js';
 import { enqueueJob } from '../../server/queue/enqueue-job.js';
 import { getJob } from '../../server/queue/get-job.js';
+import { createQueueEvents, type JobProgressEvent } from '../../server/nodes/queue-events.js';
+import { RemoteJobWatcher } from '../../server/nodes/remote-job-watcher.js';
 import { createTestDatabaseUrl, insertTestUser } from './helpers/queue-databases.js';
 import { insertReadyRecording, SCENE_ARRAY, sceneParams, writeSceneWav } from './helpers/queue-scene.js';
 
@@ -96,6 +98,14 @@ suite('scale-out: two headless nodes on PostgreSQL', function () {
     const small = [];
     for (let i = 0; i < 30; i++) small.push(await submit(`small ${i}`, shortRec, 16));
 
+    // a server on the same database publishes the headless nodes' work as its own events
+    const events = createQueueEvents();
+    const seen = { progress: [] as JobProgressEvent[], succeeded: new Set<number>() };
+    events.on('job:progress', (p) => seen.progress.push(p));
+    events.on('job:state', (e) => e.state === 'succeeded' && seen.succeeded.add(e.jobId));
+    const watcher = new RemoteJobWatcher(h.db, events, 'server-under-test', 250);
+    watcher.start();
+
     nodes.push(await startNode('a'), await startNode('b'));
 
     // kill the node that holds the long job once it has checkpointed some windows
@@ -148,6 +158,11 @@ suite('scale-out: two headless nodes on PostgreSQL', function () {
     expect(longJob.attempts).to.equal(2);
     for (const j of smallRows) expect(j.attempts, `small job ${j.id} ran more than once`).to.equal(1);
     console.log(`      victim killed at checkpoint ${killedAt}/${longJob.totalWindows}; runs per node: ${[...byNode].map((n) => `${n}=${runs.filter((r) => r.actor === n).length}`).join(', ')}`);
+
+    await new Promise((r) => setTimeout(r, 600)); // one more watcher poll
+    watcher.stop();
+    expect(seen.succeeded.size).to.equal(31);
+    expect(seen.progress.some((p) => p.jobId === long.id && p.windowsDone > 0 && p.nodeId === survivor.id)).to.equal(true);
 
     // a clean stop exits 0 and marks the node stopped
     const exited = new Promise<number | null>((r) => survivor.proc.once('exit', (code) => r(code)));
