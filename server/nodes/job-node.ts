@@ -138,6 +138,12 @@ export class JobNode {
     return [...this.running.keys()];
   }
 
+  /** Changes how many jobs this node runs at once (admin setting); running jobs above a lower limit finish first. */
+  setConcurrency(n: number): void {
+    this.o.concurrency = n;
+    void this.fill();
+  }
+
   get isDraining(): boolean {
     return this.draining;
   }
@@ -237,6 +243,7 @@ export class JobNode {
       this.o.log?.('warn', `job ${job.id} attempt ${job.attempts} failed${outcome.error.permanent ? ' permanently' : ''}: ${message}`);
     }
     if (after) this.o.events.emit('job:state', { jobId: job.id, state: after.state, previousState: 'running', job: toJobDto(after) });
+    else this.o.log?.('warn', `node ${this.id} lost the lease of job ${job.id} before recording its end; the node holding it now decides`);
   }
 
   private stopJob(jobId: number, reason: StopReason): void {
