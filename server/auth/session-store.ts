@@ -10,8 +10,17 @@ type Callback = (err?: unknown) => void;
  * so sign-ins survive restarts and every node of a PostgreSQL deployment sees them. Small
  * enough to own: the published stores each target one driver, and we switch drivers.
  */
+/**
+ * With rolling sessions express-session touches the session on every request; one UPDATE per
+ * API call competes with the queue for PGlite's single connection, so a session's expiry is
+ * pushed forward at most once a minute (a minute's less idle time is harmless).
+ */
+const TOUCH_EVERY_MS = 60_000;
+const MAX_TOUCH_MEMORY = 10_000;
+
 export class DrizzleSessionStore extends session.Store {
   private pruneTimer?: NodeJS.Timeout;
+  private readonly lastTouch = new Map<string, number>();
 
   constructor(
     private readonly db: AppDb,
@@ -31,6 +40,7 @@ export class DrizzleSessionStore extends session.Store {
   override set(sid: string, sess: session.SessionData, cb?: Callback): void {
     const data = JSON.parse(JSON.stringify(sess)) as session.SessionData;
     const expiresAt = this.expiry(sess);
+    this.lastTouch.set(sid, Date.now());
     this.db
       .insert(sessions)
       .values({ sid, data, expiresAt })
@@ -39,10 +49,18 @@ export class DrizzleSessionStore extends session.Store {
   }
 
   override destroy(sid: string, cb?: Callback): void {
+    this.lastTouch.delete(sid);
     this.db.delete(sessions).where(eq(sessions.sid, sid)).then(() => cb?.(), (err: unknown) => cb?.(err));
   }
 
   override touch(sid: string, sess: session.SessionData, cb?: Callback): void {
+    const now = Date.now();
+    if (now - (this.lastTouch.get(sid) ?? 0) < TOUCH_EVERY_MS) {
+      cb?.();
+      return;
+    }
+    if (this.lastTouch.size >= MAX_TOUCH_MEMORY) this.lastTouch.clear();
+    this.lastTouch.set(sid, now);
     this.db
       .update(sessions)
       .set({ expiresAt: this.expiry(sess) })
