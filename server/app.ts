@@ -1,6 +1,7 @@
 import cookieParser from 'cookie-parser';
 import express, { type Express } from 'express';
 import helmet from 'helmet';
+import { auditTrail } from './admin/audit-trail.js';
 import { authKit } from './auth/auth-kit.js';
 import { csrfProtection } from './auth/csrf.js';
 import type { AppContext } from './context.js';
@@ -9,6 +10,7 @@ import { errorHandler } from './http/error-handler.js';
 import { notFound } from './http/http-error.js';
 import { requestLog } from './http/request-log.js';
 import { apiRoutes } from './routes/index.js';
+import { bearerAuth } from './tokens/bearer-auth.js';
 
 /** JSON bodies are small (parameters, names); recordings go through the streaming upload route. */
 const JSON_LIMIT = '1mb';
@@ -27,6 +29,8 @@ export function createApp(ctx: AppContext): Express {
 
   // Sessions and passport only under /api: static files need no database round trip.
   app.use('/api', express.json({ limit: JSON_LIMIT }), auth.session, auth.passport.initialize(), auth.passport.session());
+  // Personal API tokens (Authorization: Bearer) replace the session user; then the audit trail.
+  app.use('/api', bearerAuth(ctx), auditTrail(ctx));
   app.use(csrfProtection(config.cookieSecure));
   for (const { path, router } of apiRoutes(ctx)) app.use(path, router);
   app.use('/api', (req, _res, next) => {

@@ -1,5 +1,6 @@
 import type http from 'node:http';
 import type { AppContext } from './context.js';
+import { adminPlugin } from './admin/admin-plugin.js';
 import { mailPlugin } from './mail/mail-plugin.js';
 import { computePlugin } from './nodes/compute-plugin.js';
 import { queuePlugin } from './nodes/queue-plugin.js';
@@ -20,4 +21,4 @@ export interface ServerPlugin {
 }
 
 /** Add one line per plugin (keep the import sorted with the others). */
-export const serverPlugins: ServerPlugin[] = [computePlugin, queuePlugin, recordingsPlugin, mailPlugin];
+export const serverPlugins: ServerPlugin[] = [computePlugin, queuePlugin, recordingsPlugin, mailPlugin, adminPlugin];

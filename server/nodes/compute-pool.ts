@@ -54,6 +54,11 @@ export class ForkedComputePool implements ComputePool {
     return this.queue.add(() => this.runOnChild<TResult>(kind, payload, options)) as Promise<TResult>;
   }
 
+  /** Changes how many tasks run at once (admin setting); tasks already running are not stopped. */
+  setConcurrency(n: number): void {
+    this.queue.concurrency = n;
+  }
+
   status() {
     return {
       children: [...this.children].map((c) => ({

@@ -9,6 +9,14 @@ import { queueRouter } from './queue.router.js';
 import { recordingsRouter } from './recordings.router.js';
 import { uploadsRouter } from './uploads.router.js';
 import { usersRouter } from './users.router.js';
+import { accountLinksRouter } from './users-account-links.router.js';
+import { auditRouter } from './audit.router.js';
+import { openapiRouter } from './openapi.router.js';
+import { outboxRouter } from './outbox.router.js';
+import { profileRouter } from './users-profile.router.js';
+import { retentionRouter } from './settings-retention.router.js';
+import { settingsRouter } from './settings.router.js';
+import { tokensRouter } from './tokens.router.js';
 import { workersRouter } from './workers.router.js';
 
 export interface RouteMount {
@@ -33,5 +41,13 @@ export function apiRoutes(ctx: AppContext): RouteMount[] {
     { path: '/api/jobs', router: jobsRouter(ctx) },
     { path: '/api/queue', router: queueRouter(ctx) },
     { path: '/api/workers', router: workersRouter(ctx) },
+    { path: '/api/profile', router: profileRouter(ctx) },
+    { path: '/api/account-links', router: accountLinksRouter(ctx) },
+    { path: '/api/tokens', router: tokensRouter(ctx) },
+    { path: '/api/settings', router: settingsRouter(ctx) },
+    { path: '/api/retention', router: retentionRouter(ctx) },
+    { path: '/api/audit', router: auditRouter(ctx) },
+    { path: '/api/outbox', router: outboxRouter(ctx) },
+    { path: '/api/openapi.json', router: openapiRouter(ctx) },
   ];
 }

@@ -6,7 +6,7 @@ import { listApiRoutes, sampleUrl, type RouteInfo } from './helpers/route-table.
 import { startTestServer, type TestClient, type TestServer } from './helpers/test-server.js';
 
 /** The only routes anyone may call signed out. */
-const PUBLIC = new Set(['GET /api/health', 'POST /api/auth/login', 'POST /api/auth/logout']);
+const PUBLIC = new Set(['GET /api/health', 'POST /api/auth/login', 'POST /api/auth/logout', 'GET /api/openapi.json', 'GET /api/account-links/:secret', 'POST /api/account-links/:secret']);
 
 describe('roles: every API route refuses the signed-out and the under-privileged', function () {
   this.timeout(300_000);
