@@ -168,7 +168,7 @@ export const beamformParamsSchema = z
         ctx.addIssue({
           code: 'custom',
           path: ['savedBeams', i],
-          message: `saved beam ${b.azimuthDeg}° az / ${b.elevationDeg}° el is not in the beam fan (${p.beams.azimuthFromDeg}° to ${p.beams.azimuthToDeg}° by ${p.beams.azimuthStepDeg}°, elevations ${p.beams.elevationsDeg.join(', ')}°); pick an azimuth from the fan`,
+          message: `saved beam ${b.azimuthDeg}° az / ${b.elevationDeg}° el is not in the beam fan (${p.beams.azimuthFromDeg}° to ${p.beams.azimuthToDeg}° by ${p.beams.azimuthStepDeg}°, elevations ${listElevations(p.beams.elevationsDeg)}); pick an azimuth from the fan`,
         });
       }
     });
@@ -177,6 +177,11 @@ export const beamformParamsSchema = z
       ctx.addIssue({ code: 'custom', path: ['savedBeams'], message: 'savedBeams lists the same beam twice' });
     }
   });
+
+/** "0, 10°", or "181 from −90° to 90°" when the list is long (messages stay one readable line). */
+function listElevations(els: number[]): string {
+  return els.length <= 6 ? `${els.join(', ')}°` : `${els.length} from ${Math.min(...els)}° to ${Math.max(...els)}°`;
+}
 
 export type BeamformParams = z.infer<typeof beamformParamsSchema>;
 /** What a caller may write (defaults not yet applied). */
@@ -198,11 +203,20 @@ export function findBeamIndex(fan: BeamFan, beam: { azimuthDeg: number; elevatio
   return e < 0 ? -1 : e * nAz + a;
 }
 
+/**
+ * At most this many problems are reported for one input: a list of 250 000 wrong bin values
+ * would otherwise give a multi-megabyte answer (one line per element) that nobody reads.
+ */
+export const MAX_REPORTED_PROBLEMS = 25;
+
 /** Parses unknown input into parameters, or a list of problems with field paths. */
 export function parseBeamformParams(input: unknown): { ok: true; params: BeamformParams } | { ok: false; problems: ParamsProblem[] } {
   const r = beamformParamsSchema.safeParse(input);
   if (r.success) return { ok: true, params: r.data };
-  return { ok: false, problems: r.error.issues.map((i) => ({ path: i.path.map((p) => (typeof p === 'symbol' ? String(p) : p)), message: i.message })) };
+  const problems: ParamsProblem[] = r.error.issues.slice(0, MAX_REPORTED_PROBLEMS).map((i) => ({ path: i.path.map((p) => (typeof p === 'symbol' ? String(p) : p)), message: i.message }));
+  const more = r.error.issues.length - problems.length;
+  if (more > 0) problems.push({ path: [], message: `and ${more} more problem${more === 1 ? '' : 's'} like these; fix the ones listed and check again` });
+  return { ok: false, problems };
 }
 
 /** One thing wrong with a job's parameters, located by a field path such as ['band', 'fHiHz']. */
