@@ -14,6 +14,7 @@
  */
 import type { EngineSetup, SnapshotBlock, WindowEngine, WindowResult } from './window-engine.types.js';
 import { blockCovariances } from './covariance.js';
+import { WindowCovariances } from './window-covariances.js';
 import { HermitianEigenvalues } from './hermitian-eigen.js';
 import { choleskyFactor, solveLower, solveUpperConjInPlace } from './hermitian-cholesky.js';
 import { elementLeadsS, lookUnitVector, steeringFromLeads } from './steering.js';
@@ -93,9 +94,14 @@ export class BeamformingEngine implements WindowEngine {
   /** SINR method in force after setTraining (upper bound until an evaluation block is given). */
   sinrMethod: SinrMethod = 'upper-bound';
 
+  /**
+   * Wall time spent forming covariances in processWindow (ms, summed over calls); the job
+   * runner reads it to split its per-stage shares.
+   */
+  readonly stageTimes = { covarianceMs: 0 };
+
   private readonly m2: number; // 2N²
-  private readonly covs: Float64Array;
-  private readonly fourth: Float64Array;
+  private readonly windowCovs: WindowCovariances;
   private readonly eig: HermitianEigenvalues;
   private readonly chol: Float64Array;
   private readonly z: Float64Array;
@@ -135,8 +141,7 @@ export class BeamformingEngine implements WindowEngine {
     this.nBins = setup.binFreqsHz.length;
     this.nBeams = setup.azimuthsDeg.length;
     this.m2 = 2 * n * n;
-    this.covs = new Float64Array(this.nBins * this.m2);
-    this.fourth = new Float64Array(this.nBins);
+    this.windowCovs = new WindowCovariances(this.nBins, n, setup.snapshotsPerWindow);
     this.eig = new HermitianEigenvalues(n);
     this.chol = new Float64Array(this.m2);
     this.z = new Float64Array(2 * n);
@@ -239,8 +244,11 @@ export class BeamformingEngine implements WindowEngine {
   }
 
   processWindow(snapshots: SnapshotBlock, out: WindowResult): void {
-    blockCovariances(this.covs, this.fourth, snapshots, this.nBins, this.setup.snapshotsPerWindow, this.channels);
-    this.processCovariances(this.covs, this.fourth, this.setup.snapshotsPerWindow, out);
+    const t0 = performance.now();
+    const wc = this.windowCovs;
+    wc.update(snapshots);
+    this.stageTimes.covarianceMs += performance.now() - t0;
+    this.processCovariances(wc.covariances, wc.fourthMoments, this.setup.snapshotsPerWindow, out);
   }
 
   /**
