@@ -4,6 +4,7 @@ import type { ArrayGeometry } from '../../shared/arrays/array-geometry.js';
 import type { RecordingRow } from '../db/schema/recordings.js';
 import { recordings } from '../db/schema/recordings.js';
 import type { BeamformTaskPayload, RecordingLocation } from '../../worker/tasks/beamform.js';
+import { APP_VERSION } from '../version.js';
 import { PermanentJobError, type JobPayloadResolver } from './job-payload.js';
 
 /** Folder of a job's result files (run.json, windows.f32) under the results root. */
@@ -37,7 +38,7 @@ export const resolveBeamformPayload: JobPayloadResolver = async (job, { db, resu
     params: job.params,
     outDir: jobResultsDir(resultsDir, job.id),
     resumeFromWindow: job.checkpointWindow,
-    meta: { jobName: job.name, attempt: job.attempts, recordingSha256: recording.sha256, ...(training ? { trainingRecordingSha256: training.sha256 } : {}) },
+    meta: { jobName: job.name, softwareVersion: `Nullsmith ${APP_VERSION}`, attempt: job.attempts, recordingSha256: recording.sha256, ...(training ? { trainingRecordingSha256: training.sha256 } : {}) },
   };
   return payload;
 };

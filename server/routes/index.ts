@@ -5,8 +5,10 @@ import { arraysRouter } from './arrays.router.js';
 import { authRouter } from './auth.router.js';
 import { healthRouter } from './health.router.js';
 import { jobsRouter } from './jobs.router.js';
+import { plotsRouter } from './plots.router.js';
 import { queueRouter } from './queue.router.js';
 import { recordingsRouter } from './recordings.router.js';
+import { resultsRouter } from './results.router.js';
 import { uploadsRouter } from './uploads.router.js';
 import { usersRouter } from './users.router.js';
 import { accountLinksRouter } from './users-account-links.router.js';
@@ -41,6 +43,8 @@ export function apiRoutes(ctx: AppContext): RouteMount[] {
     { path: '/api/jobs', router: jobsRouter(ctx) },
     { path: '/api/queue', router: queueRouter(ctx) },
     { path: '/api/workers', router: workersRouter(ctx) },
+    { path: '/api/results', router: resultsRouter(ctx) },
+    { path: '/api/plots', router: plotsRouter(ctx) },
     { path: '/api/profile', router: profileRouter(ctx) },
     { path: '/api/account-links', router: accountLinksRouter(ctx) },
     { path: '/api/tokens', router: tokensRouter(ctx) },

@@ -17,3 +17,4 @@ export * from './api-tokens.js';
 export * from './account-links.js';
 export * from './user-preferences.js';
 export * from './retention.js';
+export * from './live-changes.js';

@@ -1,0 +1,146 @@
+import { desc, gt, inArray, lt, or, sql } from 'drizzle-orm';
+import type { AppDb } from '../db/client.js';
+import { liveChanges } from '../db/schema/live-changes.js';
+
+/** What changed since the last poll, deduplicated: job ids, node ids, and whether the queue switches moved. */
+export interface ChangeBatch {
+  jobIds: number[];
+  nodeIds: string[];
+  queue: boolean;
+}
+
+export interface ChangeFeedOptions {
+  db: AppDb;
+  dbKind: 'pglite' | 'postgres';
+  /** Safety-net poll when no NOTIFY or in-process event arrives. */
+  pollMs?: number;
+  /** A sequence gap older than this is taken as a rolled-back transaction and forgotten. */
+  gapTtlMs?: number;
+  /** Rows older than this are deleted (once a minute). */
+  keepMs?: number;
+  onBatch(batch: ChangeBatch): Promise<void> | void;
+  onError(error: Error): void;
+}
+
+export const LIVE_NOTIFY_CHANNEL = 'nullsmith_live';
+
+/**
+ * Reads the live_changes log (written by triggers, so changes from every process on this
+ * database arrive) and hands each batch to the hub. Woken by NOTIFY (PGlite's in-process
+ * listener, or a dedicated PostgreSQL connection) and by wake() from in-process queue events,
+ * with a slow poll as a safety net.
+ *
+ * Ids come from a sequence, and on PostgreSQL a transaction that took id 7 may commit after
+ * one that took id 8. So the feed remembers ids skipped below its cursor for a few seconds and
+ * asks for them again; a gap that never fills was a rolled-back transaction.
+ */
+export class ChangeFeed {
+  private cursor = 0;
+  private readonly gaps = new Map<number, number>();
+  private timer: NodeJS.Timeout | undefined;
+  private pruneTimer: NodeJS.Timeout | undefined;
+  private polling = false;
+  private again = false;
+  private stopped = false;
+  private unlisten: (() => Promise<void>) | undefined;
+
+  constructor(private readonly o: ChangeFeedOptions) {}
+
+  async start(): Promise<void> {
+    const [last] = await this.o.db.select({ id: liveChanges.id }).from(liveChanges).orderBy(desc(liveChanges.id)).limit(1);
+    this.cursor = last?.id ?? 0;
+    this.unlisten = await this.listen().catch((e: unknown) => {
+      this.o.onError(new Error(`LISTEN ${LIVE_NOTIFY_CHANNEL} failed (${(e as Error).message}); live updates fall back to polling`));
+      return undefined;
+    });
+    this.timer = setInterval(() => this.wake(), this.o.pollMs ?? 1000);
+    this.pruneTimer = setInterval(() => void this.prune(), 60_000);
+  }
+
+  async stop(): Promise<void> {
+    this.stopped = true;
+    clearInterval(this.timer);
+    clearInterval(this.pruneTimer);
+    await this.unlisten?.().catch(() => undefined);
+  }
+
+  /** Poll now (coalesced: a wake during a poll runs one more poll after it). */
+  wake(): void {
+    if (this.stopped) return;
+    if (this.polling) {
+      this.again = true;
+      return;
+    }
+    this.polling = true;
+    void (async () => {
+      try {
+        do {
+          this.again = false;
+          await this.poll();
+        } while (this.again && !this.stopped);
+      } catch (e) {
+        this.o.onError(e as Error);
+      } finally {
+        this.polling = false;
+      }
+    })();
+  }
+
+  private async poll(): Promise<void> {
+    const now = Date.now();
+    const ttl = this.o.gapTtlMs ?? 10_000;
+    for (const [id, seen] of this.gaps) if (now - seen > ttl) this.gaps.delete(id);
+    const gapIds = [...this.gaps.keys()];
+    const cond = gapIds.length ? or(gt(liveChanges.id, this.cursor), inArray(liveChanges.id, gapIds)) : gt(liveChanges.id, this.cursor);
+    const rows = await this.o.db.select().from(liveChanges).where(cond).orderBy(liveChanges.id).limit(2000);
+    if (!rows.length) return;
+    const jobIds = new Set<number>();
+    const nodeIds = new Set<string>();
+    let queue = false;
+    for (const r of rows) {
+      if (this.gaps.delete(r.id)) {
+        // a late commit below the cursor: take it, the cursor stays
+      } else if (r.id > this.cursor) {
+        // remember skipped ids (cap: a burst of rollbacks must not grow this without bound)
+        for (let k = this.cursor + 1; k < r.id && this.gaps.size < 10_000; k++) this.gaps.set(k, now);
+        this.cursor = r.id;
+      }
+      if (r.topic === 'job') jobIds.add(Number(r.ref));
+      else if (r.topic === 'node') nodeIds.add(r.ref);
+      else if (r.topic === 'queue') queue = true;
+    }
+    if (rows.length === 2000) this.again = true;
+    await this.o.onBatch({ jobIds: [...jobIds], nodeIds: [...nodeIds], queue });
+  }
+
+  private async prune(): Promise<void> {
+    const keep = this.o.keepMs ?? 5 * 60_000;
+    await this.o.db
+      .delete(liveChanges)
+      .where(lt(liveChanges.at, sql`now() - ${keep} * interval '1 millisecond'`))
+      .catch((e: unknown) => this.o.onError(e as Error));
+  }
+
+  /** NOTIFY wake-ups: PGlite delivers them in-process; PostgreSQL needs a connection of its own. */
+  private async listen(): Promise<() => Promise<void>> {
+    const client = (this.o.db as unknown as { $client: unknown }).$client;
+    if (this.o.dbKind === 'pglite') {
+      const pglite = client as { listen(channel: string, cb: (payload: string) => void): Promise<() => Promise<void>> };
+      return pglite.listen(LIVE_NOTIFY_CHANNEL, () => this.wake());
+    }
+    const pool = client as { connect(): Promise<PgListenClient> };
+    const conn = await pool.connect();
+    conn.on('notification', () => this.wake());
+    await conn.query(`LISTEN ${LIVE_NOTIFY_CHANNEL}`);
+    return async () => {
+      await conn.query(`UNLISTEN ${LIVE_NOTIFY_CHANNEL}`).catch(() => undefined);
+      conn.release();
+    };
+  }
+}
+
+interface PgListenClient {
+  on(event: 'notification', cb: () => void): void;
+  query(text: string): Promise<unknown>;
+  release(): void;
+}
