@@ -6,6 +6,7 @@ import { acknowledgeCancel } from '../queue/acknowledge-cancel.js';
 import { DEFAULT_BACKOFF, type BackoffPolicy } from '../queue/backoff.js';
 import { claimJob } from '../queue/claim-job.js';
 import { completeJob } from '../queue/complete-job.js';
+import { expireForeignLeases } from '../queue/expire-foreign-leases.js';
 import { failJob } from '../queue/fail-job.js';
 import { getJob } from '../queue/get-job.js';
 import { toJobDto } from '../queue/job-dto.js';
@@ -35,6 +36,11 @@ export interface JobNodeOptions {
   leaseMs?: number;
   /** Progress write + lease renewal + cancel check per running job. Default 1 s (progress at least once a second). */
   tickMs?: number;
+  /**
+   * True only when this node is certainly the only one (the embedded database): jobs left
+   * running by a crashed previous process are reaped at start instead of after their lease.
+   */
+  soleNode?: boolean;
   /** Claim poll when no wake-up arrives (other servers' submits, start-after times). Default 2 s. */
   pollMs?: number;
   heartbeatMs?: number;
@@ -113,6 +119,10 @@ export class JobNode {
     this.o.events.on('job:submitted', this.onSubmitted);
     this.o.events.on('job:cancel-requested', this.onCancel);
     this.o.events.on('node:drain-changed', this.onDrain);
+    if (this.o.soleNode) {
+      const orphans = await expireForeignLeases(this.o.db, this.id);
+      if (orphans) this.o.log?.('warn', `${orphans} job(s) were left running by a previous process; returning them to the queue`);
+    }
     await this.reap();
     void this.fill();
   }

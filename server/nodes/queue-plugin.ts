@@ -38,6 +38,7 @@ export const queuePlugin: ServerPlugin = {
       pool: ctx.compute,
       events,
       kind: 'server',
+      soleNode: ctx.dbKind === 'pglite',
       concurrency: ctx.config.workerConcurrency,
       payloads: { beamform: resolveBeamformPayload },
       resultsDir: ctx.config.resultsDir,

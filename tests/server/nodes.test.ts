@@ -18,6 +18,7 @@ import { JobNode } from '../../server/nodes/job-node.js';
 import { JobQueue } from '../../server/nodes/job-queue.js';
 import { createQueueEvents, type JobProgressEvent } from '../../server/nodes/queue-events.js';
 import type { Actor } from '../../server/queue/actor.js';
+import { claimJob } from '../../server/queue/claim-job.js';
 import { getJob } from '../../server/queue/get-job.js';
 import { createSinrCsvStream, createWeightsCsvStream } from '../../worker/results/csv-streams.js';
 import { RECORDS_FILE } from '../../worker/results/result-header.js';
@@ -36,6 +37,21 @@ describe('job node: real beamform jobs in compute children (pglite)', function (
   let pool: ForkedComputePool;
   let node: JobNode;
   let queue: JobQueue;
+  const nodeOptions = () => ({
+    db: h.db,
+    pool,
+    events,
+    kind: 'server' as const,
+    concurrency: 1,
+    payloads: { beamform: resolveBeamformPayload },
+    resultsDir,
+    leaseMs: 10_000,
+    tickMs: 250,
+    pollMs: 300,
+    heartbeatMs: 500,
+    reapMs: 1000,
+    backoff: { baseMs: 100, capMs: 400 },
+  });
   let reference: { weights: string; sinr: string; records: Buffer };
 
   before(async () => {
@@ -47,21 +63,7 @@ describe('job node: real beamform jobs in compute children (pglite)', function (
     recordingId = await insertReadyRecording(h, await writeSceneWav(dir, 12), owner);
     pool = new ForkedComputePool({ concurrency: 1, idleMs: 60_000, cancelGraceMs: 10_000 });
     queue = new JobQueue(h.db, events);
-    node = new JobNode({
-      db: h.db,
-      pool,
-      events,
-      kind: 'server',
-      concurrency: 1,
-      payloads: { beamform: resolveBeamformPayload },
-      resultsDir,
-      leaseMs: 10_000,
-      tickMs: 250,
-      pollMs: 300,
-      heartbeatMs: 500,
-      reapMs: 1000,
-      backoff: { baseMs: 100, capMs: 400 },
-    });
+    node = new JobNode(nodeOptions());
     await node.start();
   });
   after(async () => {
@@ -189,5 +191,21 @@ describe('job node: real beamform jobs in compute children (pglite)', function (
     const done = await getJob(h.db, job.id);
     expect(done.attempts).to.equal(1);
     expect(done.lastError).to.match(/its file .*gone\.wav is missing or unreadable \(ENOENT\); restore the file or re-register the recording\./);
+  });
+
+  it('on the embedded database, a restarted server takes back jobs a crashed process left running, without waiting out the lease', async () => {
+    await node.stop();
+    // the "crashed" process: claimed with a 10-minute lease and never heard from again
+    const job = await submit('orphan');
+    await new Promise((r) => setTimeout(r, 50));
+    const claimed = await claimJob(h.db, 'crashed-process', 600_000);
+    expect(claimed?.id).to.equal(job.id);
+    node = new JobNode({ ...nodeOptions(), soleNode: true });
+    const t0 = Date.now();
+    await node.start();
+    expect(await waitFor(job.id, ['succeeded', 'failed'], 60_000)).to.equal('succeeded');
+    expect(Date.now() - t0).to.be.lessThan(60_000);
+    const history = await h.db.select().from(jobEvents).where(eq(jobEvents.jobId, job.id)).orderBy(jobEvents.id);
+    expect(history.some((e) => /lease of node crashed-process expired/.test(e.message ?? ''))).to.equal(true);
   });
 });
