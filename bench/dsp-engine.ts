@@ -6,13 +6,16 @@
  * Target (issue 3): whole job ≥ 20× real time on one core, i.e. the engine ≤ ~400 µs CPU per
  * window-bin. Run: node --import tsx bench/dsp-engine.ts [--reps 20]
  *
- * Figures on the shared 2-core machine (load average 14–17, so wall ≈ 3–4× CPU), CPU µs per
- * window-bin, before → after this round of work:
- *   processWindow          1576 → see the last run's output (target ≤ 400)
- *   covariance              251 → ~110 (tiled dot products)
- *   eigenvalues             282 → ~120 (lower-triangle Householder, no Math.hypot)
- *   conventional, 91 beams  218 → ~5 (distinct baselines)
- *   MPDR solves, 91 beams   434 → ~250 (four beams per substitution pass)
+ * Figures on the shared 2-core machine (load average 14–20, so wall ≈ 3–7× CPU and even CPU
+ * time drifts ±25 % with the load), CPU µs per window-bin, before → after this round of work:
+ *   processWindow, window hop 32   1576–1704 → 670–830 (×2.2, same-load A/B: 1704 → 777)
+ *   covariance                      251 → 90–120 (tiled dot products; overlap reuse ~−15 %)
+ *   eigenvalues                     282 → 120–200 (lower-triangle Householder, no Math.hypot)
+ *   Cholesky                         30 → 27–44 (unchanged)
+ *   conventional, 91 beams          218 → 13–19 (distinct baselines)
+ *   MPDR solves, 91 beams           434 → 360–500 incl. setFactor (four beams per pass; the
+ *                                   substitutions themselves stay at N² complex MACs per beam)
+ * Target not yet met: the per-beam substitutions alone are ≈ 96 k complex MACs per window-bin.
  */
 import { parseArgs } from 'node:util';
 import { allocateWindowResult, createWindowEngine } from '../worker/dsp/window-engine.js';
