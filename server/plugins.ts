@@ -1,5 +1,6 @@
 import type http from 'node:http';
 import type { AppContext } from './context.js';
+import { demoJobPlugin } from './demo/demo-job-plugin.js';
 import { livePlugin } from './live/live-plugin.js';
 import { adminPlugin } from './admin/admin-plugin.js';
 import { mailPlugin } from './mail/mail-plugin.js';
@@ -22,4 +23,4 @@ export interface ServerPlugin {
 }
 
 /** Add one line per plugin (keep the import sorted with the others). */
-export const serverPlugins: ServerPlugin[] = [computePlugin, queuePlugin, recordingsPlugin, mailPlugin, adminPlugin, livePlugin];
+export const serverPlugins: ServerPlugin[] = [computePlugin, queuePlugin, recordingsPlugin, mailPlugin, adminPlugin, livePlugin, demoJobPlugin];
