@@ -46,7 +46,7 @@ export async function writeSceneWav(dir: string, seconds: number, name = 'scene.
 }
 
 /** Registers the WAV as a ready recording (as inspection would leave it) and returns its id. */
-export async function insertReadyRecording(h: Pick<DatabaseHandle, 'db'>, file: string, ownerId: number): Promise<number> {
+export async function insertReadyRecording(h: Pick<DatabaseHandle, 'db'> & Partial<DatabaseHandle>, file: string, ownerId: number): Promise<number> {
   const d = await readRecordingDescription('wav', file);
   const [r] = await h.db
     .insert(recordings)
