@@ -38,6 +38,14 @@ export interface BeamformTaskResult {
   wallMs: number;
 }
 
+/** Write errors that mean the results volume, not the job, is at fault (found by the disk-full fault test). */
+const WRITE_FAILURES: Record<string, string> = {
+  ENOSPC: 'the disk is full',
+  EDQUOT: 'the disk quota is used up',
+  EFBIG: 'the file grew beyond the size this file system or process allows',
+  EROFS: 'the results volume is mounted read-only',
+};
+
 /** Progress messages at most this often (the node stores them once a second); checkpoints always go at once. */
 const PROGRESS_EVERY_MS = 100;
 
@@ -116,6 +124,15 @@ export const beamformTask: ComputeTask<BeamformTaskPayload, BeamformTaskResult> 
     } catch (e) {
       if (e instanceof JobSetupError) {
         throw new PermanentTaskError(`Job ${payload.jobId} cannot run on this recording: ${e.message.replace(/^the job cannot run: /, '')}. Rerun it with corrected parameters.`, { cause: e });
+      }
+      const code = (e as NodeJS.ErrnoException).code;
+      if (code && code in WRITE_FAILURES) {
+        // Transient: the attempt is retried (space may be freed meanwhile); the reason must say what to do.
+        throw new Error(
+          `Job ${payload.jobId} could not write its results to ${payload.outDir}: ${WRITE_FAILURES[code]} (${code}). ` +
+            `Free space on the results volume (RESULTS_DIR) or ask operations to, then rerun the job; the ${checkpoint} windows already stored are kept.`,
+          { cause: e },
+        );
       }
       throw e;
     } finally {
