@@ -298,7 +298,7 @@ export class JobNode {
   private async heartbeat(): Promise<void> {
     const rate = [...this.running.values()].reduce((s, r) => s + (r.meter.value ?? 0), 0);
     const currentJobIds = this.currentJobIds();
-    const hb = await nodeHeartbeat(this.o.db, this.id, { currentJobIds, windowsPerSecond: rate });
+    const hb = await nodeHeartbeat(this.o.db, this.id, { currentJobIds, windowsPerSecond: rate, concurrency: this.o.concurrency });
     if (!hb) return this.register();
     if (hb.draining !== this.draining) this.onDrain({ nodeId: this.id, draining: hb.draining });
     this.o.events.emit('node:heartbeat', {

@@ -9,11 +9,16 @@ import { nodes } from '../db/schema/nodes.js';
 export async function nodeHeartbeat(
   db: AppDb,
   nodeId: string,
-  status: { currentJobIds: number[]; windowsPerSecond: number },
+  status: { currentJobIds: number[]; windowsPerSecond: number; concurrency?: number },
 ): Promise<{ draining: boolean; heartbeatAt: Date } | undefined> {
   const [row] = await db
     .update(nodes)
-    .set({ heartbeatAt: sql`now()`, currentJobIds: status.currentJobIds, windowsPerSecond: status.windowsPerSecond })
+    .set({
+      heartbeatAt: sql`now()`,
+      currentJobIds: status.currentJobIds,
+      windowsPerSecond: status.windowsPerSecond,
+      ...(status.concurrency !== undefined ? { concurrency: status.concurrency } : {}),
+    })
     .where(eq(nodes.id, nodeId))
     .returning({ draining: nodes.draining, heartbeatAt: nodes.heartbeatAt });
   return row;

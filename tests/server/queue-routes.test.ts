@@ -166,6 +166,30 @@ describe('queue routes over HTTP', function () {
     expect((await waitState(b.id, ['succeeded', 'failed'])).state).to.equal('succeeded');
   });
 
+  it('cancels a running job over HTTP (202), keeps its windows and serves them as a partial CSV', async () => {
+    const longRec = await insertReadyRecording({ db: server.ctx.db }, await writeSceneWav(server.dataDir, 12, 'long.wav'), 1);
+    const res = await as.analyst!.post('/api/jobs', submitBody({ name: 'long sweep', recordingId: longRec, params: sceneParams(2) }));
+    const { job } = (await res.json()) as { job: JobDto };
+    for (let i = 0; ; i++) {
+      const { job: j } = await as.analyst!.getJson<{ job: JobDto }>(`/api/jobs/${job.id}`);
+      if (j.state === 'running' && j.checkpointWindow > 0) break;
+      if (i > 1200 || ['succeeded', 'failed'].includes(j.state)) throw new Error(`job ended ${j.state} before it could be cancelled`);
+      await new Promise((r) => setTimeout(r, 50));
+    }
+    const c = await as.operations!.post(`/api/jobs/${job.id}/cancel`);
+    expect(c.status).to.equal(202);
+    expect(((await c.json()) as { message: string }).message).to.match(/stops after the window in progress/);
+    const done = await waitState(job.id, ['cancelled', 'succeeded', 'failed']);
+    expect(done).to.include({ state: 'cancelled', partial: true });
+    const w = await as.analyst!.get(`/api/jobs/${job.id}/sinr.csv?comments=off`);
+    expect(w.status).to.equal(200);
+    expect(w.headers.get('x-nullsmith-partial')).to.equal(`windows 0..${done.checkpointWindow - 1} of ${done.totalWindows}`);
+    const windows = new Set((await w.text()).trim().split('\n').slice(1).map((l) => Number(l.split(',')[0])));
+    expect(Math.max(...windows)).to.equal(done.checkpointWindow - 1);
+    const again = await as.analyst!.post(`/api/jobs/${job.id}/cancel`);
+    expect(again.status).to.equal(409);
+  });
+
   it('lists workers with heartbeat age and drains/undrains one (audited)', async () => {
     const { nodes } = await as.operations!.getJson<{ nodes: { id: string; alive: boolean; kind: string; heartbeatAgeS: number; draining: boolean }[] }>('/api/workers');
     const me = nodes.find((n) => n.id === server.ctx.services.jobNode!.id)!;
