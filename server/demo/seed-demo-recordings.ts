@@ -9,6 +9,7 @@ import type { AppContext } from '../context.js';
 import { arrays } from '../db/schema/arrays.js';
 import { recordings } from '../db/schema/recordings.js';
 import { users } from '../db/schema/users.js';
+import { rawSideFile } from '../recordings/archive-service.js';
 import { recordingDir } from '../uploads/upload-paths.js';
 
 /** Where the demo files live in the repo (written by `npm run samples`, small ones committed). */
@@ -94,8 +95,9 @@ async function findDemoFiles(dir: string): Promise<DemoFile[]> {
     const full = path.join(dir, n);
     if (lower.endsWith('.wav') || lower.endsWith('.rf64')) out.push({ name: n, format: lower.endsWith('.rf64') ? 'rf64' : 'wav', dataPath: full, sidecarPath: null });
     else if (lower.endsWith('.sigmf-data')) out.push({ name: n, format: 'sigmf', dataPath: full, sidecarPath: full.replace(/\.sigmf-data$/i, '.sigmf-meta') });
-    else if (/\.(raw|bin)$/.test(lower) && names.includes(n.replace(/\.[^.]+$/, '.json'))) {
-      out.push({ name: n, format: 'raw', dataPath: full, sidecarPath: full.replace(/\.[^.]+$/, '.json') });
+    else if (/\.(raw|bin)$/.test(lower)) {
+      const side = await rawSideFile(full);
+      if (names.includes(path.basename(side))) out.push({ name: n, format: 'raw', dataPath: full, sidecarPath: side });
     }
   }
   return out;

@@ -198,7 +198,7 @@ async function prepareFile(file: string): Promise<{ format: RecordingFormat; siz
   if (st.size === 0) throw new Error('the file is empty');
   let sidecarPath: string | null = null;
   if (format === 'sigmf') sidecarPath = file.replace(/\.sigmf-data$/i, '.sigmf-meta');
-  if (format === 'raw') sidecarPath = file.replace(/\.[^.]+$/, '.json');
+  if (format === 'raw') sidecarPath = await rawSideFile(file);
   let sidecar: string | null = null;
   if (sidecarPath) {
     try {
@@ -209,6 +209,23 @@ async function prepareFile(file: string): Promise<{ format: RecordingFormat; siz
   }
   const magic = await readMagic(file);
   return { format: format === 'wav' && (magic === 'RF64' || magic === 'BW64') ? 'rf64' : format, sizeBytes: st.size, sidecar, sidecarPath };
+}
+
+/**
+ * The JSON side file of raw samples: `<data file>.json` (survey.raw.json, the documented
+ * name), else the data file's stem with .json (survey.json).
+ */
+export async function rawSideFile(dataFile: string): Promise<string> {
+  const candidates = [`${dataFile}.json`, dataFile.replace(/\.[^.]+$/, '.json')];
+  for (const c of candidates) {
+    try {
+      await fs.access(c);
+      return c;
+    } catch {
+      // try the next name
+    }
+  }
+  return candidates[0];
 }
 
 async function readMagic(file: string): Promise<string> {

@@ -293,7 +293,7 @@ function toSession(row: UploadRow, received: number[], receivedBytes: number): U
 
 function sidecarNameFor(dataName: string, format: string): string {
   const stem = dataName.replace(/\.[^.]*$/, '');
-  return format === 'sigmf' ? `${stem}.sigmf-meta` : `${stem}.json`;
+  return format === 'sigmf' ? `${stem}.sigmf-meta` : `${dataName}.json`;
 }
 
 async function freeBytes(dir: string): Promise<number> {

@@ -15,6 +15,7 @@ import { startTestServer, type TestClient, type TestServer } from './helpers/tes
 import { sha256File, waitInspected, writeWav } from './helpers/upload-fixtures.js';
 
 describe('archive folders', function () {
+  this.timeout(180_000); // starting a real server with compute children is slow on a busy machine
   let server: TestServer;
   let admin: TestClient;
   let analyst: TestClient;

@@ -27,6 +27,7 @@ export const limitsPlugin = (limits: Partial<UploadLimits>): ServerPlugin => ({
 });
 
 describe('uploads API', function () {
+  this.timeout(180_000); // starting a real server with compute children is slow on a busy machine
   let server: TestServer;
   let analyst: TestClient;
   let tmp: string;
