@@ -14,6 +14,12 @@ export const routes: Routes = [
     loadComponent: () => import('./sign-in/sign-in-page.component').then((m) => m.SignInPageComponent),
   },
   {
+    // one-time invitation and reset links: for people who cannot sign in yet
+    path: 'set-password/:secret',
+    title: 'Set your password · Nullsmith',
+    loadComponent: () => import('./profile/set-password-page.component').then((m) => m.SetPasswordPageComponent),
+  },
+  {
     path: '',
     canActivate: [signedInGuard],
     loadComponent: () => import('./shell/shell.component').then((m) => m.ShellComponent),
@@ -27,6 +33,14 @@ export const routes: Routes = [
         canActivate: [roleGuard('admin')],
         loadChildren: () => import('./admin/admin.routes').then((m) => m.ADMIN_ROUTES),
       },
+      {
+        path: 'audit',
+        title: 'Audit log · Nullsmith',
+        canActivate: [roleGuard('operations')],
+        loadComponent: () => import('./admin/audit-page.component').then((m) => m.AuditPageComponent),
+      },
+      { path: 'profile', loadChildren: () => import('./profile/profile.routes').then((m) => m.PROFILE_ROUTES) },
+      { path: 'api-docs', loadChildren: () => import('./api-docs/api-docs.routes').then((m) => m.API_DOCS_ROUTES) },
       {
         path: '**',
         title: 'Page not found · Nullsmith',

@@ -65,7 +65,7 @@ describe('sign-in in the browser', function () {
     expect(await page.getByTestId('signed-in-user').innerText()).to.contain('Demo analyst');
     expect((await page.getByTestId('signed-in-role').innerText()).toLowerCase()).to.equal('analyst');
     const nav = page.getByRole('navigation', { name: 'Main' });
-    expect(await nav.getByRole('link').allInnerTexts()).to.deep.equal(['radar\nJobs', 'upload_file\nRecordings', 'scatter_plot\nArrays']);
+    expect(await nav.getByRole('link').allInnerTexts()).to.deep.equal(['radar\nJobs', 'upload_file\nRecordings', 'scatter_plot\nArrays', 'badge\nProfile', 'data_object\nAPI']);
     expect(await nav.getByRole('link', { name: 'Admin' }).count()).to.equal(0);
     expect(await page.getByText('outputs are analysis aids').isVisible()).to.equal(true);
     await b.screenshot('shell-analyst-recordings');
@@ -79,7 +79,7 @@ describe('sign-in in the browser', function () {
     // Wide screens: the menu button folds the navigation to an icon rail and back.
     await page.getByRole('button', { name: 'Fold navigation' }).click();
     await nav.getByText('Recordings').waitFor({ state: 'hidden' });
-    expect(await nav.getByRole('link').count()).to.equal(3);
+    expect(await nav.getByRole('link').count()).to.equal(5);
     await b.screenshot('shell-folded-rail');
     await page.getByRole('button', { name: 'Expand navigation' }).click();
     await nav.getByText('Recordings').waitFor({ state: 'visible' });

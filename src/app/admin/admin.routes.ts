@@ -7,4 +7,14 @@ export const ADMIN_ROUTES: Routes = [
     title: 'Admin · Nullsmith',
     loadComponent: () => import('./admin-page.component').then((m) => m.AdminPageComponent),
   },
+  {
+    path: 'settings',
+    title: 'Settings · Admin · Nullsmith',
+    loadComponent: () => import('./settings-page.component').then((m) => m.SettingsPageComponent),
+  },
+  {
+    path: 'outbox',
+    title: 'Outbox · Admin · Nullsmith',
+    loadComponent: () => import('./outbox-page.component').then((m) => m.OutboxPageComponent),
+  },
 ];

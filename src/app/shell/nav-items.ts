@@ -16,4 +16,7 @@ export const NAV_ITEMS: readonly NavItem[] = [
   { label: 'Recordings', icon: 'upload_file', path: '/recordings', minRole: 'analyst' },
   { label: 'Arrays', icon: 'scatter_plot', path: '/arrays', minRole: 'analyst' },
   { label: 'Admin', icon: 'admin_panel_settings', path: '/admin', minRole: 'admin' },
+  { label: 'Audit log', icon: 'fact_check', path: '/audit', minRole: 'operations' },
+  { label: 'Profile', icon: 'badge', path: '/profile', minRole: 'analyst' },
+  { label: 'API', icon: 'data_object', path: '/api-docs', minRole: 'analyst' },
 ];
