@@ -20,6 +20,7 @@ import { choleskyFactor, solveLower, solveUpperConjInPlace } from './hermitian-c
 import { elementLeadsS, lookUnitVector, steeringFromLeads } from './steering.js';
 import { BaselineGroups, groupedQuadraticForm } from './baseline-groups.js';
 import { FourBeamSolver } from './beam-solves.js';
+import { LoadedInverse } from './loaded-inverse.js';
 import { ledoitWolf, medianOfSorted, noiseFloorLoading, traceLoading, traceOf, type LedoitWolf } from './loading.js';
 import { SinrEstimator, sinrUpperBound } from './sinr-estimate.js';
 
@@ -28,6 +29,22 @@ export type SinrMethod = 'evaluation-block' | 'upper-bound';
 
 /** Steering tables larger than this many doubles are computed per bin instead of stored. */
 const STEERING_TABLE_LIMIT = 1 << 22;
+
+/**
+ * Largest condition number of R_L = R̂ + δI (from the eigenvalues already computed) at which
+ * MPDR beams are evaluated through Q = R_L⁻¹ and the distinct baselines (loaded-inverse.ts).
+ * Rounding there costs a relative ≈ eps·cond in vᴴQv and ≈ eps·cond² in vᴴQ²v = ‖R_L⁻¹v‖²
+ * at worst (a beam on the strongest source); with eps = 2.2e-16 and cond ≤ 1e6 the first stays
+ * ≤ 2e-10 and the second's worst-case bound ≤ 2e-4, but measured errors against substitution on
+ * the standard scene (cond ≈ 1–2e5, three sources at 30/20/10 dB, K = 64) are below 1e-8
+ * relative, under the float32 precision (6e-8) of the written columns: a finite-K estimate never
+ * puts a steering vector exactly into the signal subspace, so vᴴQ²v is never as small as the
+ * bound assumes (tests/dsp/loaded-inverse.test.ts pins this). Bins above the limit, arrays
+ * without repeated baselines, and jobs with a noise-only evaluation block (which need every
+ * beam's weight vector) keep the substitution path; so does any beam failing the sanity check
+ * s > 0, ‖w‖² ≥ 1/N (WNG ≤ N), and the saved beams, whose weights are written out.
+ */
+const GROUPED_INVERSE_COND_LIMIT = 1e6;
 
 /** Relative precision of the WNG-floor bisection on δ. */
 const WNG_BISECTION_RATIO = 1 + 1e-6;
@@ -122,6 +139,14 @@ export class BeamformingEngine implements WindowEngine {
   private readonly groups: BaselineGroups | null;
   private readonly groupPhases: Float64Array; // nBins·nBeams·G·2
   private readonly groupSums: Float64Array; // 2G
+  /** R_L⁻¹ and R_L⁻² of the current bin for the grouped MPDR path (null without groups). */
+  private readonly inverse: LoadedInverse | null;
+  private readonly groupSumsQ2: Float64Array; // 2G
+  /** Beam indices left to the substitution path; allBeams = 0…nBeams−1. */
+  private readonly pending: Int32Array;
+  private readonly allBeams: Int32Array;
+  /** Bins of the last processWindow evaluated through Q = R_L⁻¹ (the rest by substitution). */
+  groupedBins = 0;
 
   // MVDR training state (weights fixed per bin and beam).
   private trained = false;
@@ -174,11 +199,17 @@ export class BeamformingEngine implements WindowEngine {
       }
       groups.fillPhases(this.groupPhases, setup.binFreqsHz, units, setup.speedMps);
       this.groupSums = new Float64Array(2 * groups.count);
+      this.groupSumsQ2 = new Float64Array(2 * groups.count);
+      this.inverse = new LoadedInverse(n);
     } else {
       this.groups = null;
       this.groupPhases = new Float64Array(0);
       this.groupSums = new Float64Array(0);
+      this.groupSumsQ2 = new Float64Array(0);
+      this.inverse = null;
     }
+    this.pending = new Int32Array(this.nBeams);
+    this.allBeams = Int32Array.from({ length: this.nBeams }, (_, b) => b);
     this.savedSlot = new Int32Array(this.nBeams).fill(-1);
     for (let s = 0; s < setup.savedBeams.length; s++) this.savedSlot[setup.savedBeams[s]] = s;
     this.failing = new Int32Array(this.nBeams);
@@ -274,6 +305,7 @@ export class BeamformingEngine implements WindowEngine {
     const mpFactor = (1 + Math.sqrt(n / effectiveSnapshots)) ** 2;
     const stride = 2 * n;
     const sinrEst = this.sinrEst;
+    this.groupedBins = 0;
     for (let f = 0; f < this.nBins; f++) {
       const off = f * this.m2;
       const eOff = f * n;
@@ -335,7 +367,14 @@ export class BeamformingEngine implements WindowEngine {
       }
       const nSaved = this.setup.savedBeams.length;
       if (kind === 'mpdr' && Number.isFinite(delta)) {
-        this.mpdrBeams(covs, off, f, delta, floor, out);
+        const ev = out.eigenvalues;
+        const condL = (ev[eOff] + delta) / (ev[eOff + n - 1] + delta);
+        if (this.inverse && !sinrEst && condL > 0 && condL <= GROUPED_INVERSE_COND_LIMIT) {
+          this.groupedBins++;
+          this.mpdrBeamsGrouped(f, delta, floor, out);
+        } else {
+          this.mpdrBeams(off, f, delta, floor, out, this.allBeams, nBeams);
+        }
         continue;
       }
       for (let b = 0; b < nBeams; b++) {
@@ -371,11 +410,45 @@ export class BeamformingEngine implements WindowEngine {
   }
 
   /**
-   * MPDR outputs of every look direction of bin f from the factor in this.chol (R̂ + δI), four
-   * beams per FourBeamSolver pass: s = vᴴR_L⁻¹v, u = R_L⁻¹v, w = u/s, ‖w‖² = ‖u‖²/s², and
-   * wᴴR̂w = wᴴ(R̂+δI)w − δ‖w‖² = 1/s − δ‖w‖² (exact, no extra N² pass).
+   * MPDR outputs of bin f through Q = R_L⁻¹ (this.chol holds the factor of R̂ + δI): per beam
+   * s = vᴴQv and ‖R_L⁻¹v‖² = vᴴQ²v by the distinct baselines, ‖w‖² = vᴴQ²v/s², power
+   * 1/s − δ‖w‖² (as in mpdrBeams). Saved beams and beams failing the sanity check go to the
+   * substitution path (see GROUPED_INVERSE_COND_LIMIT).
    */
-  private mpdrBeams(covs: Float64Array, off: number, f: number, delta: number, floor: number, out: WindowResult): void {
+  private mpdrBeamsGrouped(f: number, delta: number, floor: number, out: WindowResult): void {
+    const n = this.channels;
+    const nBeams = this.nBeams;
+    const groups = this.groups!;
+    const inverse = this.inverse!;
+    const g = groups.count;
+    inverse.fromFactor(this.chol);
+    const trQ = groups.sumByGroup(this.groupSums, inverse.q, 0);
+    const trQ2 = groups.sumByGroup(this.groupSumsQ2, inverse.q2, 0);
+    const minNorm2 = (1 - 1e-9) / n;
+    const pending = this.pending;
+    let count = 0;
+    for (let b = 0; b < nBeams; b++) {
+      const pOff = (f * nBeams + b) * g * 2;
+      const s = groupedQuadraticForm(trQ, this.groupSums, this.groupPhases, pOff, g);
+      const t = groupedQuadraticForm(trQ2, this.groupSumsQ2, this.groupPhases, pOff, g);
+      const inv = 1 / s;
+      const norm2 = t * inv * inv;
+      if (this.savedSlot[b] >= 0 || !(s > 0) || !(norm2 >= minNorm2) || !Number.isFinite(norm2)) {
+        pending[count++] = b;
+        continue;
+      }
+      this.recordBeam(out, f * nBeams + b, b, inv - delta * norm2, norm2, floor, NaN);
+    }
+    if (count > 0) this.mpdrBeams(f * this.m2, f, delta, floor, out, pending, count);
+  }
+
+  /**
+   * MPDR outputs of the look directions beams[0…count) of bin f from the factor in this.chol
+   * (R̂ + δI), four beams per FourBeamSolver pass: s = vᴴR_L⁻¹v, u = R_L⁻¹v, w = u/s,
+   * ‖w‖² = ‖u‖²/s², and wᴴR̂w = wᴴ(R̂+δI)w − δ‖w‖² = 1/s − δ‖w‖² (exact, no extra N² pass).
+   * `off` locates bin f in the noise-only evaluation block's covariances, when there is one.
+   */
+  private mpdrBeams(off: number, f: number, delta: number, floor: number, out: WindowResult, beams: Int32Array, count: number): void {
     const n = this.channels;
     const nBeams = this.nBeams;
     const stride = 2 * n;
@@ -383,14 +456,20 @@ export class BeamformingEngine implements WindowEngine {
     const solver = this.solver;
     const v = this.vBuf;
     const base = this.vBase;
-    const last = nBeams - 1;
+    const last = count - 1;
     const evalCovs = this.sinrEst ? this.evalCovs : null;
     solver.setFactor(this.chol);
-    for (let b0 = 0; b0 < nBeams; b0 += 4) {
-      solver.solve(v, base + b0 * stride, base + Math.min(b0 + 1, last) * stride, base + Math.min(b0 + 2, last) * stride, base + Math.min(b0 + 3, last) * stride);
-      const count = Math.min(4, nBeams - b0);
-      for (let t = 0; t < count; t++) {
-        const b = b0 + t;
+    for (let i0 = 0; i0 < count; i0 += 4) {
+      solver.solve(
+        v,
+        base + beams[i0] * stride,
+        base + beams[Math.min(i0 + 1, last)] * stride,
+        base + beams[Math.min(i0 + 2, last)] * stride,
+        base + beams[Math.min(i0 + 3, last)] * stride,
+      );
+      const inPass = Math.min(4, count - i0);
+      for (let t = 0; t < inPass; t++) {
+        const b = beams[i0 + t];
         const inv = 1 / solver.zNorm2[t];
         const norm2 = solver.uNorm2[t] * inv * inv;
         const slot = this.savedSlot[b];
