@@ -25,8 +25,8 @@
  */
 export class LoadedInverse {
   readonly n: number;
-  /** X = L⁻¹, lower triangle (the strict upper triangle is never read). */
-  readonly lowerInverse: Float64Array;
+  /** Xᵀ for X = L⁻¹: row j holds column j of X (entries i ≥ j; zeros before the diagonal). */
+  readonly lowerInverseT: Float64Array;
   /** Q = R_L⁻¹, full Hermitian. */
   readonly q: Float64Array;
   /** Q² = R_L⁻², upper triangle (strict lower never written). */
@@ -34,7 +34,7 @@ export class LoadedInverse {
 
   constructor(n: number) {
     this.n = n;
-    this.lowerInverse = new Float64Array(2 * n * n);
+    this.lowerInverseT = new Float64Array(2 * n * n);
     this.q = new Float64Array(2 * n * n);
     this.q2 = new Float64Array(2 * n * n);
   }
@@ -47,88 +47,194 @@ export class LoadedInverse {
   }
 
   /**
-   * X = L⁻¹ row by row: X_ii = 1/L_ii, X_ij = −(1/L_ii)·Σ_{k=j}^{i−1} L_ik·X_kj (j < i).
-   * Accumulated as row axpys (row k of X scaled by L_ik), so every inner loop runs along a
-   * contiguous row.
+   * Column j of X = L⁻¹ by forward substitution of L·x = e_j, stored as row j of
+   * lowerInverseT (Xᵀ: entry (j, i) = X_ij, zero for i < j): X_jj = 1/L_jj,
+   * X_ij = −(Σ_{k=j}^{i−1} L_ik·X_kj)/L_ii. Dot products along contiguous rows of L and of Xᵀ,
+   * two columns per pass so each loaded L_ik serves both (X_{j,j+1} = 0 makes the ranges equal).
    */
   private invertLower(l: Float64Array): void {
     const n = this.n;
-    const x = this.lowerInverse;
-    for (let i = 0; i < n; i++) {
-      const rowI = 2 * i * n;
-      for (let j = 0; j < 2 * i; j++) x[rowI + j] = 0;
-      for (let k = 0; k < i; k++) {
-        const lr = l[rowI + 2 * k];
-        const li = l[rowI + 2 * k + 1];
-        const rowK = 2 * k * n;
-        for (let j = 0; j <= k; j++) {
-          const xr = x[rowK + 2 * j];
-          const xi = x[rowK + 2 * j + 1];
-          x[rowI + 2 * j] += lr * xr - li * xi;
-          x[rowI + 2 * j + 1] += lr * xi + li * xr;
+    const t = this.lowerInverseT;
+    const n2 = 2 * n;
+    let j = 0;
+    for (; j + 1 < n; j += 2) {
+      const rA = j * n2;
+      const rB = rA + n2;
+      t[rA + 2 * j] = 1 / l[j * n2 + 2 * j];
+      t[rA + 2 * j + 1] = 0;
+      const d1 = 1 / l[rB + 2 * j + 2];
+      t[rA + 2 * j + 2] = -(l[rB + 2 * j] * t[rA + 2 * j]) * d1;
+      t[rA + 2 * j + 3] = -(l[rB + 2 * j + 1] * t[rA + 2 * j]) * d1;
+      t[rB + 2 * j] = 0;
+      t[rB + 2 * j + 1] = 0;
+      t[rB + 2 * j + 2] = d1;
+      t[rB + 2 * j + 3] = 0;
+      for (let i = j + 2; i < n; i++) {
+        const rL = i * n2;
+        let ar = 0, ai = 0, br = 0, bi = 0;
+        for (let k = 2 * j; k < 2 * i; k += 2) {
+          const lr = l[rL + k], li = l[rL + k + 1];
+          const xr = t[rA + k], xi = t[rA + k + 1];
+          const yr = t[rB + k], yi = t[rB + k + 1];
+          ar += lr * xr - li * xi;
+          ai += lr * xi + li * xr;
+          br += lr * yr - li * yi;
+          bi += lr * yi + li * yr;
         }
+        const d = -1 / l[rL + 2 * i];
+        t[rA + 2 * i] = ar * d;
+        t[rA + 2 * i + 1] = ai * d;
+        t[rB + 2 * i] = br * d;
+        t[rB + 2 * i + 1] = bi * d;
       }
-      const inv = 1 / l[rowI + 2 * i];
-      for (let j = 0; j < 2 * i; j++) x[rowI + j] *= -inv;
-      x[rowI + 2 * i] = inv;
-      x[rowI + 2 * i + 1] = 0;
+    }
+    if (j < n) {
+      // n odd: the last column is the single entry 1/L_jj.
+      t[j * n2 + 2 * j] = 1 / l[j * n2 + 2 * j];
+      t[j * n2 + 2 * j + 1] = 0;
     }
   }
 
   /**
-   * Q = XᴴX as a sum of rank-one updates by the rows of X: Q_ij += conj(X_ki)·X_kj for i ≤ j ≤ k
-   * (upper triangle, contiguous in j), then the lower triangle mirrored by conjugation.
+   * Q = XᴴX: Q_ij = Σ_{k≥j} conj(X_ki)·X_kj = Σ_k conj(Xᵀ_ik)·Xᵀ_jk for i ≤ j, dot products of
+   * rows of Xᵀ two by two (rows below their diagonal are zero, so every sum may start at k = j);
+   * then the lower triangle mirrored by conjugation.
    */
   private gramOfInverse(): void {
     const n = this.n;
-    const x = this.lowerInverse;
+    const t = this.lowerInverseT;
     const q = this.q;
-    q.fill(0);
-    for (let k = 0; k < n; k++) {
-      const rowK = 2 * k * n;
-      for (let i = 0; i <= k; i++) {
-        const ar = x[rowK + 2 * i];
-        const ai = -x[rowK + 2 * i + 1]; // conj(X_ki)
-        const rowI = 2 * i * n;
-        for (let j = i; j <= k; j++) {
-          const br = x[rowK + 2 * j];
-          const bi = x[rowK + 2 * j + 1];
-          q[rowI + 2 * j] += ar * br - ai * bi;
-          q[rowI + 2 * j + 1] += ar * bi + ai * br;
+    const n2 = 2 * n;
+    let i = 0;
+    for (; i + 1 < n; i += 2) {
+      const rI = i * n2;
+      const rI1 = rI + n2;
+      let j = i;
+      for (; j + 1 < n; j += 2) {
+        const rJ = j * n2;
+        const rJ1 = rJ + n2;
+        let aar = 0, aai = 0, abr = 0, abi = 0, bar = 0, bai = 0, bbr = 0, bbi = 0;
+        for (let k = 2 * j; k < n2; k += 2) {
+          const xr = t[rI + k], xi = t[rI + k + 1];
+          const yr = t[rI1 + k], yi = t[rI1 + k + 1];
+          const cr = t[rJ + k], ci = t[rJ + k + 1];
+          const dr = t[rJ1 + k], di = t[rJ1 + k + 1];
+          aar += xr * cr + xi * ci;
+          aai += xr * ci - xi * cr;
+          abr += xr * dr + xi * di;
+          abi += xr * di - xi * dr;
+          bar += yr * cr + yi * ci;
+          bai += yr * ci - yi * cr;
+          bbr += yr * dr + yi * di;
+          bbi += yr * di - yi * dr;
         }
+        q[rI + 2 * j] = aar;
+        q[rI + 2 * j + 1] = i === j ? 0 : aai;
+        q[rI + 2 * j + 2] = abr;
+        q[rI + 2 * j + 3] = abi;
+        if (j > i) {
+          q[rI1 + 2 * j] = bar;
+          q[rI1 + 2 * j + 1] = bai;
+        }
+        q[rI1 + 2 * j + 2] = bbr;
+        q[rI1 + 2 * j + 3] = i === j ? 0 : bbi;
+      }
+      if (j < n) {
+        this.gramEntry(i, j);
+        this.gramEntry(i + 1, j);
       }
     }
-    for (let i = 0; i < n; i++) {
-      q[2 * (i * n + i) + 1] = 0;
-      for (let j = i + 1; j < n; j++) {
-        q[2 * (j * n + i)] = q[2 * (i * n + j)];
-        q[2 * (j * n + i) + 1] = -q[2 * (i * n + j) + 1];
+    if (i < n) this.gramEntry(i, i);
+    for (let a = 0; a < n; a++) {
+      for (let b = a + 1; b < n; b++) {
+        q[2 * (b * n + a)] = q[2 * (a * n + b)];
+        q[2 * (b * n + a) + 1] = -q[2 * (a * n + b) + 1];
       }
     }
   }
 
-  /** (Q²)_ij = Σ_k Q_ik·Q_kj = Σ_k Q_ik·conj(Q_jk) (Q Hermitian): dot products of rows i and j, i ≤ j. */
+  /** One entry Q_ij, i ≤ j (odd leftovers of gramOfInverse's 2×2 blocks). */
+  private gramEntry(i: number, j: number): void {
+    const n2 = 2 * this.n;
+    const t = this.lowerInverseT;
+    let sr = 0;
+    let si = 0;
+    for (let k = 2 * j; k < n2; k += 2) {
+      const ar = t[i * n2 + k], ai = t[i * n2 + k + 1];
+      const br = t[j * n2 + k], bi = t[j * n2 + k + 1];
+      sr += ar * br + ai * bi;
+      si += ar * bi - ai * br;
+    }
+    this.q[i * n2 + 2 * j] = sr;
+    this.q[i * n2 + 2 * j + 1] = i === j ? 0 : si;
+  }
+
+  /**
+   * (Q²)_ij = Σ_k Q_ik·Q_kj = Σ_k Q_ik·conj(Q_jk) (Q Hermitian): dot products of rows i and j,
+   * i ≤ j, two rows by two rows so that each loaded element serves two products (bench:
+   * 101 → see bench/dsp-engine.ts µs per window-bin against one dot product at a time).
+   */
   private squareOfQ(): void {
     const n = this.n;
     const q = this.q;
     const q2 = this.q2;
-    for (let i = 0; i < n; i++) {
-      const rowI = 2 * i * n;
-      for (let j = i; j < n; j++) {
-        const rowJ = 2 * j * n;
-        let sr = 0;
-        let si = 0;
-        for (let k = 0; k < 2 * n; k += 2) {
-          const ar = q[rowI + k];
-          const ai = q[rowI + k + 1];
-          const br = q[rowJ + k];
-          const bi = q[rowJ + k + 1];
-          sr += ar * br + ai * bi;
-          si += ai * br - ar * bi;
+    const n2 = 2 * n;
+    let i = 0;
+    for (; i + 1 < n; i += 2) {
+      const rI = i * n2;
+      const rI1 = rI + n2;
+      let j = i;
+      for (; j + 1 < n; j += 2) {
+        const rJ = j * n2;
+        const rJ1 = rJ + n2;
+        let aar = 0, aai = 0, abr = 0, abi = 0, bar = 0, bai = 0, bbr = 0, bbi = 0;
+        for (let k = 0; k < n2; k += 2) {
+          const xr = q[rI + k], xi = q[rI + k + 1];
+          const yr = q[rI1 + k], yi = q[rI1 + k + 1];
+          const cr = q[rJ + k], ci = q[rJ + k + 1];
+          const dr = q[rJ1 + k], di = q[rJ1 + k + 1];
+          aar += xr * cr + xi * ci;
+          aai += xi * cr - xr * ci;
+          abr += xr * dr + xi * di;
+          abi += xi * dr - xr * di;
+          bar += yr * cr + yi * ci;
+          bai += yi * cr - yr * ci;
+          bbr += yr * dr + yi * di;
+          bbi += yi * dr - yr * di;
         }
-        q2[rowI + 2 * j] = sr;
-        q2[rowI + 2 * j + 1] = i === j ? 0 : si;
+        q2[rI + 2 * j] = aar;
+        q2[rI + 2 * j + 1] = i === j ? 0 : aai;
+        q2[rI + 2 * j + 2] = abr;
+        q2[rI + 2 * j + 3] = abi;
+        if (j > i) {
+          q2[rI1 + 2 * j] = bar;
+          q2[rI1 + 2 * j + 1] = bai;
+        }
+        q2[rI1 + 2 * j + 2] = bbr;
+        q2[rI1 + 2 * j + 3] = i === j ? 0 : bbi;
+      }
+      if (j < n) {
+        this.dotInto(i, j);
+        this.dotInto(i + 1, j);
       }
     }
+    if (i < n) this.dotInto(i, i);
   }
+
+  /** One entry (Q²)_ij, i ≤ j (the odd row or column left over by squareOfQ's 2×2 blocks). */
+  private dotInto(i: number, j: number): void {
+    const n2 = 2 * this.n;
+    const q = this.q;
+    let sr = 0;
+    let si = 0;
+    for (let k = 0; k < n2; k += 2) {
+      const ar = q[i * n2 + k], ai = q[i * n2 + k + 1];
+      const br = q[j * n2 + k], bi = q[j * n2 + k + 1];
+      sr += ar * br + ai * bi;
+      si += ai * br - ar * bi;
+    }
+    this.q2[i * n2 + 2 * j] = sr;
+    this.q2[i * n2 + 2 * j + 1] = i === j ? 0 : si;
+  }
+
 }
