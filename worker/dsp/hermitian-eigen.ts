@@ -118,7 +118,45 @@ export class HermitianEigenvalues {
         p[2 * i] = 0;
         p[2 * i + 1] = 0;
       }
-      for (let i = m0; i < n; i++) {
+      // Two rows per pass (bench/dsp-engine.ts "eigenvalues": each loaded v_j and p_j serves both
+      // rows; the odd row left over goes alone).
+      let i = m0;
+      for (; i + 1 < n; i += 2) {
+        const row = 2 * i * n;
+        const row1 = row + 2 * n;
+        const vir = v[2 * i];
+        const vii = v[2 * i + 1];
+        const wir = v[2 * i + 2];
+        const wii = v[2 * i + 3];
+        let sr = 0;
+        let si = 0;
+        let tr = 0;
+        let ti = 0;
+        for (let j = m0; j < i; j++) {
+          const ar = a[row + 2 * j];
+          const ai = a[row + 2 * j + 1];
+          const br = a[row1 + 2 * j];
+          const bi = a[row1 + 2 * j + 1];
+          const vjr = v[2 * j];
+          const vji = v[2 * j + 1];
+          sr += ar * vjr - ai * vji;
+          si += ar * vji + ai * vjr;
+          tr += br * vjr - bi * vji;
+          ti += br * vji + bi * vjr;
+          p[2 * j] += ar * vir + ai * vii + br * wir + bi * wii;
+          p[2 * j + 1] += ar * vii - ai * vir + br * wii - bi * wir;
+        }
+        // Element (i+1, i) and the two diagonals.
+        const cr = a[row1 + 2 * i];
+        const ci = a[row1 + 2 * i + 1];
+        const aii = a[row + 2 * i];
+        const bjj = a[row1 + 2 * i + 2];
+        p[2 * i] += sr + aii * vir + cr * wir + ci * wii;
+        p[2 * i + 1] += si + aii * vii + cr * wii - ci * wir;
+        p[2 * i + 2] += tr + cr * vir - ci * vii + bjj * wir;
+        p[2 * i + 3] += ti + cr * vii + ci * vir + bjj * wii;
+      }
+      for (; i < n; i++) {
         const row = 2 * i * n;
         const vir = v[2 * i];
         const vii = v[2 * i + 1];
@@ -153,18 +191,45 @@ export class HermitianEigenvalues {
         p[2 * i] -= kr * v[2 * i];
         p[2 * i + 1] -= kr * v[2 * i + 1];
       }
-      for (let i = m0; i < n; i++) {
-        const row = 2 * i * n;
-        const vr = v[2 * i];
-        const vi = v[2 * i + 1];
-        const qr = p[2 * i];
-        const qi = p[2 * i + 1];
-        for (let j = m0; j <= i; j++) {
+      // Two rows per pass, sharing the loads of v_j and q_j.
+      let r = m0;
+      for (; r + 1 < n; r += 2) {
+        const row = 2 * r * n;
+        const row1 = row + 2 * n;
+        const vr = v[2 * r];
+        const vi = v[2 * r + 1];
+        const qr = p[2 * r];
+        const qi = p[2 * r + 1];
+        const ur = v[2 * r + 2];
+        const ui = v[2 * r + 3];
+        const sr = p[2 * r + 2];
+        const si = p[2 * r + 3];
+        for (let j = m0; j <= r; j++) {
           const qjr = p[2 * j];
           const qji = p[2 * j + 1];
           const vjr = v[2 * j];
           const vji = v[2 * j + 1];
           // v_i·conj(q_j) + q_i·conj(v_j)
+          a[row + 2 * j] -= vr * qjr + vi * qji + qr * vjr + qi * vji;
+          a[row + 2 * j + 1] -= vi * qjr - vr * qji + qi * vjr - qr * vji;
+          a[row1 + 2 * j] -= ur * qjr + ui * qji + sr * vjr + si * vji;
+          a[row1 + 2 * j + 1] -= ui * qjr - ur * qji + si * vjr - sr * vji;
+        }
+        // Diagonal of row r + 1 (j = r + 1).
+        a[row1 + 2 * r + 2] -= 2 * (ur * sr + ui * si);
+        a[row1 + 2 * r + 3] = 0;
+      }
+      for (; r < n; r++) {
+        const row = 2 * r * n;
+        const vr = v[2 * r];
+        const vi = v[2 * r + 1];
+        const qr = p[2 * r];
+        const qi = p[2 * r + 1];
+        for (let j = m0; j <= r; j++) {
+          const qjr = p[2 * j];
+          const qji = p[2 * j + 1];
+          const vjr = v[2 * j];
+          const vji = v[2 * j + 1];
           a[row + 2 * j] -= vr * qjr + vi * qji + qr * vjr + qi * vji;
           a[row + 2 * j + 1] -= vi * qjr - vr * qji + qi * vjr - qr * vji;
         }
