@@ -78,7 +78,9 @@ describe('admin, profile and API pages in the browser', function () {
     await browser.page.getByText('Welcome, Shearwater Survey').waitFor();
     await browser.page.getByLabel('New password').fill('shearwater-password');
     await browser.page.getByRole('button', { name: 'Set password' }).click();
-    await browser.page.getByText('Your password is set.').waitFor();
+    const outcome = browser.page.locator('main [role="status"], main [role="alert"]').first();
+    await outcome.waitFor();
+    expect(await outcome.innerText()).to.match(/Your password is set\./);
     expect(unexpected(browser)).to.deep.equal([]);
   });
 

@@ -1,7 +1,7 @@
 import { ChangeDetectionStrategy, Component, inject, input, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
 import { HttpContext, HttpErrorResponse } from '@angular/common/http';
-import { FormControl, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -24,16 +24,16 @@ import { CALLER_HANDLES_ERRORS } from '../core/http-context';
           <p role="status">Your password is set. <a routerLink="/sign-in">Sign in</a> with {{ info.value().email }}.</p>
         } @else {
           <p>{{ info.value().purpose === 'invite' ? 'Welcome' : 'Hello' }}, {{ info.value().displayName }}. Choose a password for {{ info.value().email }}.</p>
-          <form (ngSubmit)="submit()">
+          <form [formGroup]="form" (ngSubmit)="submit()">
             <mat-form-field class="full">
               <mat-label>New password</mat-label>
-              <input matInput type="password" [formControl]="password" autocomplete="new-password" />
+              <input matInput type="password" formControlName="password" autocomplete="new-password" />
               <mat-hint>At least 12 characters</mat-hint>
             </mat-form-field>
             @if (error()) {
               <p class="error" role="alert">{{ error() }}</p>
             }
-            <button mat-flat-button type="submit" [disabled]="password.invalid">Set password</button>
+            <button mat-flat-button type="submit" [disabled]="form.invalid">Set password</button>
           </form>
         }
       } @else if (info.error()) {
@@ -55,7 +55,9 @@ export class SetPasswordPageComponent {
   readonly secret = input.required<string>();
   protected readonly done = signal(false);
   protected readonly error = signal('');
-  protected readonly password = new FormControl('', { nonNullable: true, validators: [Validators.required, Validators.minLength(12)] });
+  protected readonly form = new FormGroup({
+    password: new FormControl('', { nonNullable: true, validators: [Validators.required, Validators.minLength(12)] }),
+  });
   private readonly quiet = { context: new HttpContext().set(CALLER_HANDLES_ERRORS, true) };
   protected readonly info = rxResource({ params: () => this.secret(), stream: ({ params }) => this.api.get(`/api/account-links/${params}`, accountLinkInfoSchema, this.quiet) });
 
@@ -65,7 +67,7 @@ export class SetPasswordPageComponent {
   }
 
   protected submit(): void {
-    this.api.post(`/api/account-links/${this.secret()}`, { password: this.password.value }, z.unknown(), this.quiet).subscribe({
+    this.api.post(`/api/account-links/${this.secret()}`, { password: this.form.controls.password.value }, z.unknown(), this.quiet).subscribe({
       next: () => this.done.set(true),
       error: (e: unknown) => this.error.set(e instanceof HttpErrorResponse ? describeHttpError(e).message : 'The password could not be set; try again.'),
     });
