@@ -18,7 +18,13 @@ export const MAX_SIDECAR_BYTES = 1024 * 1024;
  * side file inline as `sidecar` (its text) and `sidecarName`; only the data file is chunked.
  */
 export const createUploadSchema = z.object({
-  name: z.string().trim().min(1, 'Give the file name.').max(300, 'File names are at most 300 characters.'),
+  name: z
+    .string()
+    .trim()
+    .min(1, 'Give the file name.')
+    .max(300, 'File names are at most 300 characters.')
+    // a NUL or line break cannot be stored or shown faithfully (PostgreSQL text refuses NUL): say so instead
+    .refine((n) => !/[\u0000-\u001f\u007f]/.test(n), 'File names cannot contain control characters (NUL, tab, line breaks); rename the file and upload it again.'),
   sizeBytes: z.number({ error: 'sizeBytes must be the file size in bytes' }).int('sizeBytes must be a whole number').positive('The file is empty: nothing to upload.'),
   format: recordingFormatSchema,
   sha256: sha256Hex.optional(),
