@@ -75,7 +75,7 @@ describe('job node: real beamform jobs in compute children (pglite)', function (
 
   const submit = (name: string, extra: { maxAttempts?: number; recordingId?: number } = {}) =>
     queue.submit(
-      { name, ownerId: owner, params: sceneParams(), paramsVersion: 1, recordingId: extra.recordingId ?? recordingId, arraySnapshot: SCENE_ARRAY, maxAttempts: extra.maxAttempts ?? 3 },
+      { name, ownerId: owner, params: sceneParams(2), paramsVersion: 1, recordingId: extra.recordingId ?? recordingId, arraySnapshot: SCENE_ARRAY, maxAttempts: extra.maxAttempts ?? 3 },
       actor,
     );
 
