@@ -162,7 +162,9 @@ export async function createSinrCsvStream(dir: string, filter: CsvFilter = {}): 
     const f = resolveFilter(h, reader.windowsStored, filter);
     const extra = [
       'Powers in dB re 1 (full scale squared per bin; broadband rows sum the band); capon_power_db is the adaptive beam output power w^H R w',
-      'sinr_db empty where no SINR can be estimated (no noise-only data) or the estimate is not positive (not detected); wng_db = |w^H v|^2 / (w^H w)',
+      h.setup.sinrMethod === 'evaluation-block'
+        ? 'sinr_db is the bias-corrected estimate against noise-only frames that did not build the weights; empty where it is not positive (not detected); wng_db = |w^H v|^2 / (w^H w)'
+        : 'sinr_db is a heuristic UPPER BOUND (no noise-only interval was given: noise floor from the smallest eigenvalues), not an estimate; wng_db = |w^H v|^2 / (w^H w)',
       'loading = diagonal loading delta added to R (linear, units of R); broadband rows leave freq_hz, wng_db and loading empty',
     ];
     const lead = (f.comments ? commentLines(h, 'SINR, power and white-noise gain per window, beam and bin', extra) : '') + `${SINR_CSV_COLUMNS}\n`;

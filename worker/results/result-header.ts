@@ -38,6 +38,12 @@ export interface ResultSetup {
   snapshotsPerWindow: number;
   /** K for the sliding window; (1+α)/(1−α), capped at K, for exponential forgetting. */
   effectiveSnapshots: number;
+  /**
+   * How the SINR fields were made: 'evaluation-block' is the bias-corrected estimate against
+   * noise-only frames that did not build the weights; 'upper-bound' is the heuristic bound from
+   * the smallest eigenvalues, used when the job has no noise-only interval (README "Conventions").
+   */
+  sinrMethod: 'evaluation-block' | 'upper-bound';
 }
 
 export interface ResultHeader {

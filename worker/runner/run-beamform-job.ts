@@ -129,6 +129,9 @@ export async function runBeamformJob(opts: RunBeamformJobOptions): Promise<RunBe
       loading: setup.loading,
       snapshotsPerWindow: K,
       effectiveSnapshots: effectiveSnapshots(params),
+      // Mirrors the engine's choice in setTraining: an evaluation block exists only for adaptive
+      // beamformers whose plan has noise-only evaluation frames.
+      sinrMethod: params.beamformer.kind !== 'conventional' && (plan.evaluation?.frames ?? 0) > 0 ? 'evaluation-block' : 'upper-bound',
     },
     records: { ...layout, file: 'windows.f32' },
     meta: opts.meta ?? {},
