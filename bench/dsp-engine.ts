@@ -15,7 +15,17 @@
  *   conventional, 91 beams          218 → 13–19 (distinct baselines)
  *   MPDR solves, 91 beams           434 → 360–500 incl. setFactor (four beams per pass; the
  *                                   substitutions themselves stay at N² complex MACs per beam)
- * Target not yet met: the per-beam substitutions alone are ≈ 96 k complex MACs per window-bin.
+ * Second round (load average 14–16; same caveats), CPU µs per window-bin:
+ *   processWindow, window hop 32   861 (this round's start) → 511–537
+ *   MPDR beams                     400–580 (91 substitutions) → ≈ 110–160: Q = R_L⁻¹ and Q² from
+ *                                  the factor (96–124), vᴴQv and vᴴQ²v of 91 beams by distinct
+ *                                  baselines (≈ 15–40), the 8 saved beams still by substitution
+ *                                  (loaded-inverse.ts; guard in window-engine.ts)
+ *   eigenvalues                    same-process A/B 128–176 → 118–126 (two rows per pass)
+ * Whole job (node --import tsx bench/run.ts, 10-min file, cached): 12.2× → 15.8× real time per
+ * CPU second of the process (wall 229 s → 80 s at load 15 and 14). Target still not met: the
+ * engine now splits into eigenvalues ≈ 120–170, covariance ≈ 90–115, MPDR ≈ 110–160,
+ * Cholesky ≈ 30, conventional ≈ 15–25; the job adds the FFT stage.
  */
 import { parseArgs } from 'node:util';
 import { allocateWindowResult, createWindowEngine } from '../worker/dsp/window-engine.js';

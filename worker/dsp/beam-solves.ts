@@ -3,7 +3,9 @@
  * factor R_L = L·Lᴴ per (bin, window):
  *   z = L⁻¹v (forward substitution), s = ‖z‖² = vᴴR_L⁻¹v,
  *   u = L⁻ᴴz = R_L⁻¹v (back substitution), so w = u/s and ‖w‖² = ‖u‖²/s².
- * Substitution, never an explicit inverse (DOMAIN.md §2).
+ * Substitution, never an explicit inverse (DOMAIN.md §2), for the beams whose weights are
+ * written out and wherever the explicit-inverse scan of loaded-inverse.ts is not safe (see
+ * GROUPED_INVERSE_COND_LIMIT in window-engine.ts).
  *
  * Why four beams per pass (bench/dsp-engine.ts, CPU time, N = 32, 91 beams): each loaded
  * element of L feeds four complex multiply-adds whose running sums stay in local variables,
