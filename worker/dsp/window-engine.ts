@@ -425,12 +425,24 @@ export class BeamformingEngine implements WindowEngine {
     const trQ = groups.sumByGroup(this.groupSums, inverse.q, 0);
     const trQ2 = groups.sumByGroup(this.groupSumsQ2, inverse.q2, 0);
     const minNorm2 = (1 - 1e-9) / n;
+    const phases = this.groupPhases;
+    const sumsQ = this.groupSums;
+    const sumsQ2 = this.groupSumsQ2;
     const pending = this.pending;
     let count = 0;
     for (let b = 0; b < nBeams; b++) {
       const pOff = (f * nBeams + b) * g * 2;
-      const s = groupedQuadraticForm(trQ, this.groupSums, this.groupPhases, pOff, g);
-      const t = groupedQuadraticForm(trQ2, this.groupSumsQ2, this.groupPhases, pOff, g);
+      // Both forms in one pass over the beam's phases (the table is megabytes: read it once).
+      let accQ = 0;
+      let accQ2 = 0;
+      for (let k = 0; k < 2 * g; k += 2) {
+        const er = phases[pOff + k];
+        const ei = phases[pOff + k + 1];
+        accQ += sumsQ[k] * er - sumsQ[k + 1] * ei;
+        accQ2 += sumsQ2[k] * er - sumsQ2[k + 1] * ei;
+      }
+      const s = trQ + 2 * accQ;
+      const t = trQ2 + 2 * accQ2;
       const inv = 1 / s;
       const norm2 = t * inv * inv;
       if (this.savedSlot[b] >= 0 || !(s > 0) || !(norm2 >= minNorm2) || !Number.isFinite(norm2)) {
