@@ -1,7 +1,7 @@
 import { DecimalPipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
-import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormControl, FormGroup, type FormGroupDirective, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -94,7 +94,7 @@ const rootsSchema = z.object({ roots: z.array(z.object({ id: z.number(), name: z
             }
           </ul>
         }
-        <form class="row" [formGroup]="rootForm" (ngSubmit)="addRoot()">
+        <form class="row" [formGroup]="rootForm" #rootFd="ngForm" (ngSubmit)="addRoot(rootFd)">
           <mat-form-field><mat-label>Name</mat-label><input matInput formControlName="name" /></mat-form-field>
           <mat-form-field class="wide"><mat-label>Folder on the server (absolute path)</mat-label><input matInput formControlName="path" /></mat-form-field>
           <button mat-stroked-button type="submit" [disabled]="rootForm.invalid">Add root</button>
@@ -176,9 +176,9 @@ export class SettingsPageComponent {
     });
   }
 
-  protected addRoot(): void {
+  protected addRoot(fd: FormGroupDirective): void {
     this.api.post('/api/archives', this.rootForm.getRawValue(), z.unknown()).subscribe(() => {
-      this.rootForm.reset();
+      fd.resetForm({ name: '', path: '' });
       this.roots.reload();
     });
   }

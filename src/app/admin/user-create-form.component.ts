@@ -1,5 +1,5 @@
 import { ChangeDetectionStrategy, Component, inject, output, signal } from '@angular/core';
-import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormControl, FormGroup, type FormGroupDirective, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
@@ -14,7 +14,7 @@ import { ROLE_LABELS } from '../shell/role-label';
   selector: 'ns-user-create-form',
   imports: [ReactiveFormsModule, MatButtonModule, MatFormFieldModule, MatInputModule, MatSelectModule],
   template: `
-    <form [formGroup]="form" (ngSubmit)="submit()" class="row">
+    <form [formGroup]="form" #fd="ngForm" (ngSubmit)="submit(fd)" class="row">
       <mat-form-field><mat-label>Name</mat-label><input matInput formControlName="displayName" required /></mat-form-field>
       <mat-form-field><mat-label>E-mail</mat-label><input matInput type="email" formControlName="email" required /></mat-form-field>
       <mat-form-field>
@@ -65,13 +65,13 @@ export class UserCreateFormComponent {
     password: new FormControl('', { nonNullable: true, validators: [Validators.minLength(12)] }),
   });
 
-  protected submit(): void {
+  protected submit(fd: FormGroupDirective): void {
     const v = this.form.getRawValue();
     this.busy.set(true);
     this.api.post('/api/users', { ...v, password: v.password || undefined }, userActionResponseSchema).subscribe({
       next: (o) => {
         this.outcome.set(o);
-        this.form.reset({ displayName: '', email: '', role: 'analyst', password: '' });
+        fd.resetForm({ displayName: '', email: '', role: 'analyst', password: '' });
         this.busy.set(false);
         this.created.emit();
       },

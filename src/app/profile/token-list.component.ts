@@ -1,15 +1,14 @@
 import { DatePipe } from '@angular/common';
 import { ChangeDetectionStrategy, Component, inject, signal } from '@angular/core';
 import { rxResource } from '@angular/core/rxjs-interop';
-import { FormControl, FormGroup, ReactiveFormsModule, Validators } from '@angular/forms';
+import { FormControl, FormGroup, type FormGroupDirective, ReactiveFormsModule, Validators } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
 import { map } from 'rxjs';
-import { z } from 'zod';
-import { apiTokenSchema, createdTokenSchema, TOKEN_MAX_DAYS, tokenListResponseSchema, type TokenScope } from '../../../shared/api/tokens.js';
+import { createdTokenSchema, TOKEN_MAX_DAYS, tokenListResponseSchema, type TokenScope } from '../../../shared/api/tokens.js';
 import { PANEL_STYLES } from '../admin/panel.styles';
 import { ApiService } from '../core/api.service';
 
@@ -25,7 +24,7 @@ import { ApiService } from '../core/api.service';
           For scripts: send a token as <span class="mono">Authorization: Bearer nsk_…</span>. "Read" may only look; "submit" may also upload and queue jobs.
           No token can change accounts or settings. See the API page for every endpoint.
         </p>
-        <form class="row" [formGroup]="form" (ngSubmit)="create()">
+        <form class="row" [formGroup]="form" #fd="ngForm" (ngSubmit)="create(fd)">
           <mat-form-field><mat-label>Where it is used</mat-label><input matInput formControlName="name" placeholder="survey laptop script" /></mat-form-field>
           <mat-form-field>
             <mat-label>Scope</mat-label>
@@ -103,10 +102,12 @@ export class TokenListComponent {
   });
   protected readonly tokens = rxResource({ stream: () => this.api.get('/api/tokens', tokenListResponseSchema).pipe(map((b) => b.tokens)) });
 
-  protected create(): void {
-    this.api.post('/api/tokens', this.form.getRawValue(), createdTokenSchema).subscribe((c) => {
+  protected create(fd: FormGroupDirective): void {
+    const v = this.form.getRawValue();
+    this.api.post('/api/tokens', v, createdTokenSchema).subscribe((c) => {
       this.secret.set(c.secret);
-      this.form.controls.name.reset('');
+      // resetForm also clears "submitted", so the emptied name field is not shown as an error
+      fd.resetForm({ ...v, name: '' });
       this.tokens.reload();
     });
   }
@@ -119,6 +120,3 @@ export class TokenListComponent {
     void navigator.clipboard?.writeText(text);
   }
 }
-
-// keep the schema import used for type-checking the list rows
-export type TokenRow = z.infer<typeof apiTokenSchema>;
