@@ -20,7 +20,9 @@ export function progressPercent(job: Pick<JobDto, 'windowsDone' | 'totalWindows'
 /** "1 h 04 min", "3 min 20 s", "12 s". */
 export function formatDuration(seconds: number | null | undefined): string {
   if (seconds === null || seconds === undefined || !Number.isFinite(seconds)) return '–';
+  if (seconds > 0 && seconds < 0.5) return '< 1 s';
   const s = Math.max(0, Math.round(seconds));
+  if (s < 1) return '< 1 s';
   if (s < 60) return `${s} s`;
   if (s < 3600) return `${Math.floor(s / 60)} min ${String(s % 60).padStart(2, '0')} s`;
   return `${Math.floor(s / 3600)} h ${String(Math.floor((s % 3600) / 60)).padStart(2, '0')} min`;

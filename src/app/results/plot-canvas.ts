@@ -77,14 +77,14 @@ export function drawAxes(
   ctx.lineWidth = 1;
   ctx.textAlign = 'center';
   ctx.textBaseline = 'top';
-  for (const t of niceTicks(range.x0, range.x1, Math.max(3, Math.floor(f.width / 80)))) {
+  for (const t of niceTicks(Math.min(range.x0, range.x1), Math.max(range.x0, range.x1), Math.max(3, Math.floor(f.width / 80)))) {
     const x = Math.round(sx(f, t)) + 0.5;
     if (opts.grid !== false) line(ctx, x, f.top, x, f.top + f.height);
     ctx.fillText(formatTick(t), x, f.top + f.height + 6);
   }
   ctx.textAlign = 'right';
   ctx.textBaseline = 'middle';
-  for (const t of niceTicks(range.y0, range.y1, Math.max(3, Math.floor(f.height / 50)))) {
+  for (const t of niceTicks(Math.min(range.y0, range.y1), Math.max(range.y0, range.y1), Math.max(3, Math.floor(f.height / 50)))) {
     const y = Math.round(sy(f, t)) + 0.5;
     if (opts.grid !== false) line(ctx, f.left, y, f.left + f.width, y);
     ctx.fillText(formatTick(t), f.left - 6, y);

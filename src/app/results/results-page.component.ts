@@ -1,5 +1,5 @@
 import { HttpContext } from '@angular/common/http';
-import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal } from '@angular/core';
+import { ChangeDetectionStrategy, Component, DestroyRef, computed, effect, inject, input, signal, untracked } from '@angular/core';
 import { rxResource, takeUntilDestroyed } from '@angular/core/rxjs-interop';
 import { FormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
@@ -169,6 +169,13 @@ export class ResultsPageComponent {
     this.tableRefresh.pipe(throttleTime(3000, undefined, { leading: true, trailing: true }), takeUntilDestroyed(this.destroy)).subscribe(() => this.tableVersion.update((v) => v + 1));
     effect((onCleanup) => {
       const id = this.jobId();
+      // Only the job id drives this effect: the subscription itself reads the live status.
+      untracked(() => this.follow(id, onCleanup));
+    });
+  }
+
+  private follow(id: number, onCleanup: (fn: () => void) => void): void {
+    {
       const sub = this.live.watch([`job:${id}`], { [`job:${id}`]: 0 }).subscribe((m) => {
         if (m.type === 'job' && m.job.id === id) this.onJob(m.job);
         if (m.type === 'windows' && m.jobId === id) this.addWindows(m.windows);
@@ -179,7 +186,7 @@ export class ResultsPageComponent {
         sub.unsubscribe();
         resync.unsubscribe();
       });
-    });
+    }
   }
 
   protected pickWindow(w: number): void {
