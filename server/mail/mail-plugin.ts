@@ -64,6 +64,16 @@ export const mailPlugin: ServerPlugin = {
       },
     };
   },
+  attach(ctx, server) {
+    // Without PUBLIC_URL, links in mail point at the address this server really listens on
+    // (PORT=0 picks the port only when listening starts).
+    const mail = ctx.services.mail;
+    if (!mail || process.env.PUBLIC_URL) return;
+    server.once('listening', () => {
+      const a = server.address();
+      if (a && typeof a === 'object') mail.config.publicUrl = `http://${a.family === 'IPv6' ? `[${a.address}]` : a.address}:${a.port}`;
+    });
+  },
   async stop(ctx) {
     await ctx.services.mail?.stop();
   },

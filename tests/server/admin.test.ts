@@ -47,6 +47,7 @@ describe('admin: accounts', function () {
     const [msg] = (await server.ctx.db.select().from(mailMessages)).filter((m) => m.envelopeTo.includes('petrel@example.org'));
     expect(msg.subject).to.match(/invited/);
     const link = /\/set-password\/(nsl_[A-Za-z0-9_-]+)/.exec(msg.textBody)![1];
+    expect(msg.textBody).to.include(`${server.url}/set-password/`); // the real port, also when PORT=0
     const anon = server.client();
     expect(((await anon.getJson(`/api/account-links/${link}`)) as { email: string }).email).to.equal('petrel@example.org');
     const use = await anon.post(`/api/account-links/${link}`, { password: 'petrel-password-1' });
