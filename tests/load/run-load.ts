@@ -52,6 +52,8 @@ const REPO = path.resolve(import.meta.dirname, '../..');
 
 const tmp = fs.mkdtempSync(path.join(os.tmpdir(), 'nullsmith-load-'));
 let server: ChildProcess | undefined;
+/** The server's last log lines, shown when the run fails. */
+let serverLog = '';
 const sockets: WebSocket[] = [];
 
 function cleanUp(): void {
@@ -80,7 +82,10 @@ function startServer(): Promise<string> {
       const m = /listening on (http:\/\/\S+)/.exec(out);
       if (m) resolve(m[1]);
     });
-    server.stderr!.on('data', (d: Buffer) => (err += d.toString()));
+    server.stderr!.on('data', (d: Buffer) => {
+      err += d.toString();
+      serverLog = (serverLog + d.toString()).slice(-8000);
+    });
     server.on('exit', (code) => reject(new Error(`server exited (${code}) before listening: ${err}`)));
   });
 }
@@ -231,6 +236,7 @@ main().then(
   },
   (e: unknown) => {
     console.error('load run failed:', e);
+    console.error(`server ${server?.exitCode === null ? 'still running' : `exited with ${server?.exitCode} (${server?.signalCode})`}; its last log lines:\n${serverLog}`);
     cleanUp();
     process.exit(1);
   },
