@@ -1,4 +1,4 @@
-import { z } from 'zod';
+import * as z from 'zod';
 
 /**
  * Parameters of one beamforming job, as the browser, the API, the queue and the CLI

@@ -5,7 +5,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatExpansionModule } from '@angular/material/expansion';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatTableModule } from '@angular/material/table';
-import { z } from 'zod';
+import * as z from 'zod';
 import { outboxResponseSchema } from '../../../shared/api/outbox.js';
 import { ApiService } from '../core/api.service';
 import { PageHeaderComponent } from '../ui/page-header.component';

@@ -6,7 +6,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { z } from 'zod';
+import * as z from 'zod';
 import { adminSettingsResponseSchema, type AdminSettingsResponse } from '../../../shared/api/admin-settings.js';
 import { ApiService } from '../core/api.service';
 import { PageHeaderComponent } from '../ui/page-header.component';

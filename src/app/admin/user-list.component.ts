@@ -6,7 +6,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
 import { MatSelectModule } from '@angular/material/select';
 import { MatTableModule } from '@angular/material/table';
-import { z } from 'zod';
+import * as z from 'zod';
 import { ROLES, type Role } from '../../../shared/roles.js';
 import { userActionResponseSchema } from '../../../shared/api/user-admin.js';
 import { type UserSummary, userListResponseSchema, userSummarySchema } from '../../../shared/api/users.js';

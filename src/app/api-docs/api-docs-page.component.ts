@@ -3,7 +3,7 @@ import { ChangeDetectionStrategy, Component, computed, inject } from '@angular/c
 import { rxResource } from '@angular/core/rxjs-interop';
 import { MatExpansionModule } from '@angular/material/expansion';
 import { MatProgressBarModule } from '@angular/material/progress-bar';
-import { z } from 'zod';
+import * as z from 'zod';
 import { PANEL_STYLES } from '../admin/panel.styles';
 import { ApiService } from '../core/api.service';
 import { PageHeaderComponent } from '../ui/page-header.component';

@@ -6,7 +6,7 @@ import { MatButtonModule } from '@angular/material/button';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatInputModule } from '@angular/material/input';
 import { RouterLink } from '@angular/router';
-import { z } from 'zod';
+import * as z from 'zod';
 import { accountLinkInfoSchema } from '../../../shared/api/user-admin.js';
 import { ApiService } from '../core/api.service';
 import { describeHttpError } from '../core/describe-http-error';
