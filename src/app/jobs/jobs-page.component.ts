@@ -70,7 +70,7 @@ export class JobsPageComponent {
   protected readonly isOps = computed(() => this.session.hasRole('operations'));
   protected readonly me = computed(() => this.session.user()?.id ?? -1);
   protected readonly columns = computed(() => [
-    'name', 'state', 'priority', 'owner', 'recording', 'progress', 'rate', 'eta', 'created', 'started', 'finished', 'actions',
+    'name', 'state', 'priority', 'owner', 'recording', 'progress', 'rate', 'created', 'ran', 'actions',
   ]);
 
   protected readonly stateFilter = signal<JobState[]>([]);
@@ -106,6 +106,13 @@ export class JobsPageComponent {
     void firstValueFrom(this.api.get('/api/recordings', recordingListSchema, { params: { pageSize: 200 } })).then((r) =>
       this.recordingNames.set(new Map(r.items.map((i) => [i.id, i.name]))),
     );
+  }
+
+  /** "13:05 → 13:09" (times of day, UTC), or what is known so far. */
+  protected ran(job: JobDto): string {
+    const t = (iso: string | null) => (iso ? new Date(iso).toLocaleTimeString('en-GB', { hour: '2-digit', minute: '2-digit', timeZone: 'UTC' }) : '');
+    if (!job.startedAt) return '–';
+    return `${t(job.startedAt)} → ${job.finishedAt ? t(job.finishedAt) : '…'}`;
   }
 
   protected lookOf(job: JobDto): { label: string; icon: string } {
