@@ -1,6 +1,3 @@
-import fs from 'node:fs';
-import path from 'node:path';
-import { pipeline } from 'node:stream/promises';
 import { Router, type Request } from 'express';
 import { asc, eq } from 'drizzle-orm';
 import { z } from 'zod';
@@ -10,16 +7,13 @@ import { requireRole, requireUser } from '../auth/require-role.js';
 import type { AppContext } from '../context.js';
 import { jobEvents } from '../db/schema/job-events.js';
 import { forbidden, HttpError } from '../http/http-error.js';
-import { jobResultsDir } from '../nodes/beamform-payload.js';
 import type { JobQueue } from '../nodes/job-queue.js';
 import { prepareBeamformJob } from '../nodes/job-submission.js';
 import type { Actor } from '../queue/actor.js';
 import { getJob } from '../queue/get-job.js';
 import { toJobDto } from '../queue/job-dto.js';
 import { listJobs } from '../queue/list-jobs.js';
-import { CsvFilterError } from '../../worker/results/csv-filter.js';
-import { createSinrCsvStream, createWeightsCsvStream } from '../../worker/results/csv-streams.js';
-import { HEADER_FILE } from '../../worker/results/result-header.js';
+import { resultCsvHandler } from './results.router.js';
 
 export const actorOf = (req: Request): Actor => ({ kind: 'user', userId: req.user!.id, role: req.user!.role, email: req.user!.email });
 
@@ -37,20 +31,6 @@ const rerunSchema = z.object({
   priority: jobPrioritySchema.optional(),
   runAfter: z.iso.datetime({ offset: true, error: 'runAfter must be an ISO date-time, e.g. 2026-12-03T01:00:00Z.' }).optional(),
   arrayId: z.number().int().optional(),
-});
-
-const intList = (what: string) =>
-  z
-    .string()
-    .regex(/^\d+(,\d+)*$/, `${what} must be comma-separated whole numbers, e.g. 0,3,7`)
-    .transform((s) => s.split(',').map(Number))
-    .optional();
-const csvQuerySchema = z.object({
-  fromWindow: z.coerce.number().int().min(0, 'fromWindow must be 0 or more').optional(),
-  toWindow: z.coerce.number().int().min(0, 'toWindow must be 0 or more').optional(),
-  beams: intList('beams'),
-  bins: intList('bins'),
-  comments: z.enum(['on', 'off'], { error: 'comments must be "on" or "off"' }).optional(),
 });
 
 /**
@@ -126,39 +106,9 @@ export function jobsRouter(ctx: AppContext): Router {
     res.status(201).json({ job: toJobDto(job), estimates });
   });
 
-  for (const [file, open] of [
-    ['weights.csv', createWeightsCsvStream],
-    ['sinr.csv', createSinrCsvStream],
-  ] as const) {
-    router.get(`/:id/${file}`, async (req, res) => {
-      const job = await getJob(ctx.db, jobIdSchema.parse(req.params.id));
-      const dir = jobResultsDir(ctx.config.resultsDir, job.id);
-      if (!fs.existsSync(path.join(dir, HEADER_FILE)) || job.checkpointWindow === 0) {
-        throw new HttpError(409, 'no_results_yet', `Job ${job.id} is ${job.state} and has no stored windows yet; download once it has run (its progress shows windows done).`);
-      }
-      const q = csvQuerySchema.parse(req.query);
-      // Never past the committed checkpoint: windows beyond it may be rewritten by a retry.
-      const lastWindow = job.checkpointWindow - 1;
-      let stream;
-      try {
-        stream = await open(dir, {
-          ...(q.fromWindow !== undefined ? { fromWindow: q.fromWindow } : {}),
-          toWindow: Math.min(q.toWindow ?? lastWindow, lastWindow),
-          ...(q.beams ? { beams: q.beams } : {}),
-          ...(q.bins ? { bins: q.bins } : {}),
-          ...(q.comments ? { comments: q.comments === 'on' } : {}),
-        });
-      } catch (e) {
-        if (e instanceof CsvFilterError) throw new HttpError(400, 'bad_filter', `${e.message}.`);
-        throw e;
-      }
-      res.setHeader('Content-Type', 'text/csv; charset=utf-8');
-      res.setHeader('Content-Disposition', `attachment; filename="job-${job.id}-${file}"`);
-      res.setHeader('X-Nullsmith-Job-State', job.state);
-      if (job.state !== 'succeeded') res.setHeader('X-Nullsmith-Partial', `windows 0..${lastWindow} of ${job.totalWindows ?? '?'}`);
-      await pipeline(stream, res);
-    });
-  }
+  // Same handler as /api/results/:id/<kind>.csv: one implementation of the download.
+  router.get('/:id/weights.csv', resultCsvHandler(ctx, 'weights'));
+  router.get('/:id/sinr.csv', resultCsvHandler(ctx, 'sinr'));
 
   return router;
 }

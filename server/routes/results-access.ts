@@ -6,6 +6,8 @@ import type { JobRow } from '../db/schema/jobs.js';
 import { HttpError } from '../http/http-error.js';
 import { jobResultsDir } from '../nodes/beamform-payload.js';
 import { getJob } from '../queue/get-job.js';
+import { eq } from 'drizzle-orm';
+import { resultPurges } from '../db/schema/retention.js';
 import { HEADER_FILE, ResultFilesError } from '../../worker/results/result-header.js';
 
 export const resultJobIdSchema = z.coerce
@@ -26,6 +28,10 @@ export async function storedResults(ctx: AppContext, rawId: unknown): Promise<St
   const job = await getJob(ctx.db, resultJobIdSchema.parse(rawId));
   const dir = jobResultsDir(ctx.config.resultsDir, job.id);
   if (!fs.existsSync(path.join(dir, HEADER_FILE)) || job.checkpointWindow === 0) {
+    const [purge] = await ctx.db.select().from(resultPurges).where(eq(resultPurges.jobId, job.id));
+    if (purge) {
+      throw new HttpError(410, 'results_deleted', `Job ${job.id}'s results were deleted by the retention rule on ${purge.purgedAt.toISOString()} (${purge.reason}); re-run the job to get them again, and pin jobs whose results must be kept.`);
+    }
     throw new HttpError(409, 'no_results_yet', `Job ${job.id} is ${job.state} and has no stored windows yet; results appear once its first windows are done.`);
   }
   return { job, dir, lastWindow: job.checkpointWindow - 1 };

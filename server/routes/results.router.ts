@@ -1,6 +1,6 @@
 import zlib from 'node:zlib';
 import { pipeline } from 'node:stream/promises';
-import { Router } from 'express';
+import { Router, type RequestHandler } from 'express';
 import * as z from 'zod';
 import { requireUser } from '../auth/require-role.js';
 import type { AppContext } from '../context.js';
@@ -39,21 +39,15 @@ export function fileSlug(name: string): string {
   );
 }
 
-/**
- * /api/results: weights.csv and sinr.csv downloads, filtered by window range, beams and bins,
- * optionally gzip-compressed (a .csv.gz file). Streamed with back-pressure from the result
- * files by the same code the CLI uses, so a download is byte-identical to the CLI's output
- * for the same filters; never past the committed checkpoint of a running job.
- */
-export function resultsRouter(ctx: AppContext): Router {
-  const router = Router();
-  router.use(requireUser);
+const csvStreams = { weights: createWeightsCsvStream, sinr: createSinrCsvStream } as const;
 
-  for (const [file, open] of [
-    ['weights', createWeightsCsvStream],
-    ['sinr', createSinrCsvStream],
-  ] as const) {
-    router.get(`/:id/${file}.csv`, async (req, res) => {
+/**
+ * The one CSV download handler, mounted at /api/results/:id/<kind>.csv and at
+ * /api/jobs/:id/<kind>.csv (the path scripts use): filters, gzip, file name, partial headers.
+ */
+export function resultCsvHandler(ctx: AppContext, file: keyof typeof csvStreams): RequestHandler {
+  const open = csvStreams[file];
+  return async (req, res) => {
       const { job, dir, lastWindow } = await storedResults(ctx, req.params.id);
       const q = downloadQuerySchema.parse(req.query);
       if (q.toWindow !== undefined && q.toWindow > lastWindow) {
@@ -78,8 +72,21 @@ export function resultsRouter(ctx: AppContext): Router {
         res.setHeader('Content-Type', 'text/csv; charset=utf-8');
         await pipeline(stream, res);
       }
-    });
-  }
+  };
+}
+
+/**
+ * /api/results: weights.csv and sinr.csv downloads, filtered by window range, beams and bins,
+ * optionally gzip-compressed (a .csv.gz file). Streamed with back-pressure from the result
+ * files by the same code the CLI uses, so a download is byte-identical to the CLI's output
+ * for the same filters; never past the committed checkpoint of a running job.
+ */
+export function resultsRouter(ctx: AppContext): Router {
+  const router = Router();
+  router.use(requireUser);
+
+  router.get('/:id/weights.csv', resultCsvHandler(ctx, 'weights'));
+  router.get('/:id/sinr.csv', resultCsvHandler(ctx, 'sinr'));
 
   return router;
 }

@@ -72,7 +72,10 @@ describe('result retention', function () {
     const [entry] = await server.ctx.db.select().from(audit).where(eq(audit.target, `job:${ids[0]}`)).then((r) => r.filter((e) => e.action === 'results.delete'));
     expect(entry.after).to.include({ bytesReclaimed: sizes[0], retentionDays: 30 });
     const csv = await ops.get(`/api/jobs/${ids[0]}/sinr.csv`);
-    expect(csv.status).to.equal(409);
+    expect(csv.status).to.equal(410); // gone, and the message says the retention rule removed them
+    const body = (await csv.json()) as { error: { code: string; message: string } };
+    expect(body.error.code).to.equal('results_deleted');
+    expect(body.error.message).to.match(/deleted by the retention rule/);
   });
 
   it('a second sweep finds nothing; unpinning lets the next one delete', async () => {
