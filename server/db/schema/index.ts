@@ -18,3 +18,4 @@ export * from './account-links.js';
 export * from './user-preferences.js';
 export * from './retention.js';
 export * from './live-changes.js';
+export * from './job-batches.js';

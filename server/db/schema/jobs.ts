@@ -55,6 +55,8 @@ export const jobs = pgTable(
     /** True when the job stopped early (cancelled while running) and kept its finished windows. */
     partial: boolean().notNull().default(false),
     rerunOf: integer(),
+    /** The batch submission this job belongs to (job_batches.id), null for a single submission. */
+    batchId: integer(),
     startedAt: timestamp({ withTimezone: true }),
     finishedAt: timestamp({ withTimezone: true }),
     ...timestamps,
@@ -68,6 +70,7 @@ export const jobs = pgTable(
     index('jobs_lease_idx').on(t.leaseExpiresAt).where(sql`${t.state} = 'running'`),
     index('jobs_owner_idx').on(t.ownerId, t.createdAt),
     index('jobs_state_idx').on(t.state, t.createdAt),
+    index('jobs_batch_idx').on(t.batchId).where(sql`${t.batchId} is not null`),
     check('jobs_attempts_ck', sql`${t.attempts} >= 0 and ${t.maxAttempts} >= 1`),
     check('jobs_running_has_lease_ck', sql`${t.state} <> 'running' or (${t.claimedBy} is not null and ${t.leaseExpiresAt} is not null)`),
   ],
