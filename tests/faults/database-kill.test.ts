@@ -13,17 +13,11 @@ import { expect } from 'chai';
 import type { ArrayRecord } from '../../shared/api/arrays.js';
 import { lineArray } from '../../shared/arrays/array-geometry.js';
 import { startServerProcess, type ServerProcess } from '../server/helpers/server-process.js';
-import { demoAccount, TestClient } from '../server/helpers/test-server.js';
+import { signInDemo, TestClient } from '../server/helpers/test-server.js';
 
 const ROUNDS = Number(process.env.FAULT_DB_ROUNDS ?? 3);
 
-async function signIn(url: string): Promise<TestClient> {
-  const c = new TestClient(url);
-  const a = demoAccount('analyst');
-  const res = await c.post('/api/auth/login', { email: a.email, password: a.password });
-  if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`);
-  return c;
-}
+const signIn = (url: string): Promise<TestClient> => signInDemo(url, 'analyst');
 
 describe(`faults: SIGKILL of the server during database writes (${ROUNDS} rounds)`, function () {
   this.timeout(900_000);

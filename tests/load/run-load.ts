@@ -25,7 +25,7 @@ import type { JobDto } from '../../shared/api/jobs.js';
 import type { UploadSession } from '../../shared/api/uploads.js';
 import { LIVE_PATH } from '../../shared/api/live.js';
 import { SCENE_ARRAY, sceneParams, writeSceneWav } from '../server/helpers/queue-scene.js';
-import { demoAccount, TestClient } from '../server/helpers/test-server.js';
+import { signInDemo, TestClient } from '../server/helpers/test-server.js';
 import { openSession, sendMissingChunks, sha256File, waitInspected, writeLargeWav } from '../server/helpers/upload-fixtures.js';
 
 const { values: opt } = parseArgs({
@@ -97,13 +97,7 @@ const percentile = (xs: number[], p: number) => {
 };
 const fmtMs = (x: number) => `${x.toFixed(1)} ms`;
 
-async function signIn(url: string): Promise<TestClient> {
-  const c = new TestClient(url);
-  const a = demoAccount('analyst');
-  const res = await c.post('/api/auth/login', { email: a.email, password: a.password });
-  if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`);
-  return c;
-}
+const signIn = (url: string): Promise<TestClient> => signInDemo(url, 'analyst');
 
 async function upload(c: TestClient, file: string, name: string): Promise<number> {
   const size = fs.statSync(file).size;

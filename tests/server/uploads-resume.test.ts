@@ -10,7 +10,7 @@ import os from 'node:os';
 import path from 'node:path';
 import { expect } from 'chai';
 import type { UploadSession } from '../../shared/api/uploads.js';
-import { demoAccount, TestClient } from './helpers/test-server.js';
+import { signInDemo, TestClient } from './helpers/test-server.js';
 import { openSession, sendChunk, sha256File, waitInspected, writeLargeWav } from './helpers/upload-fixtures.js';
 
 const MiB = 1024 * 1024;
@@ -48,13 +48,7 @@ function peakRssMiB(pid: number): number {
   return kb / 1024;
 }
 
-async function signIn(url: string): Promise<TestClient> {
-  const c = new TestClient(url);
-  const a = demoAccount('analyst');
-  const res = await c.post('/api/auth/login', { email: a.email, password: a.password });
-  if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`);
-  return c;
-}
+const signIn = (url: string): Promise<TestClient> => signInDemo(url, 'analyst');
 
 describe(`uploads survive a killed server (${Math.round(SIZE / MiB)} MiB)`, function () {
   this.timeout(HEAVY ? 1_800_000 : 300_000);

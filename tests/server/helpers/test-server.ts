@@ -181,3 +181,12 @@ export class TestClient {
 
 /** The demo password of a role (for tests that sign in by hand). */
 export const demoAccount = (role: Role) => DEMO_ACCOUNTS.find((a) => a.role === role)!;
+
+/** Signs a fresh client in with a demo account on a server started elsewhere (a separate process). */
+export async function signInDemo(url: string, role: Role = 'analyst'): Promise<TestClient> {
+  const c = new TestClient(url);
+  const a = demoAccount(role);
+  const res = await c.post('/api/auth/login', { email: a.email, password: a.password });
+  if (res.status !== 200) throw new Error(`sign-in failed: ${res.status} ${await res.text()}`);
+  return c;
+}
