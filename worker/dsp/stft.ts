@@ -61,6 +61,29 @@ export class StftKernel {
   }
 
   /**
+   * Two real channels in one complex transform: z[n] = w[n]·(a[n] + j·b[n]) → out (re, im
+   * interleaved, all nfft bins of Z). splitPairBins then recovers A[k] and B[k] by conjugate
+   * symmetry (A[k] = (Z[k] + Z*[N−k])/2, B[k] = (Z[k] − Z*[N−k])/2j). Why: with fft.js one
+   * complex 512-point transform costs ≈ 11.4 µs against ≈ 8.9 µs for one real transform
+   * (bench/.p3 micro-benchmark on this machine), so a pair of channels costs ~35 % less.
+   */
+  realPair(out: Float64Array, a: Float64Array, b: Float64Array, offset = 0): void {
+    const n = this.nfft;
+    if (offset < 0 || offset + n > a.length || offset + n > b.length) {
+      throw new RangeError(`frame [${offset}, ${offset + n}) runs outside the ${Math.min(a.length, b.length)} samples given`);
+    }
+    if (out.length < 2 * n) throw new RangeError(`spectrum buffer needs ${2 * n} values, has ${out.length}`);
+    const w = this.window;
+    const buf = this.scratch;
+    for (let i = 0; i < n; i++) {
+      const wi = w[i];
+      buf[2 * i] = wi * a[offset + i];
+      buf[2 * i + 1] = wi * b[offset + i];
+    }
+    this.fft.transform(out, buf);
+  }
+
+  /**
    * Complex baseband samples (re, im interleaved) starting at complex sample `offset` →
    * out (re, im interleaved, length ≥ 2·nfft); all nfft bins are valid.
    */
@@ -100,6 +123,36 @@ export function scatterBins(
     const dst = ((b * snapshotsPerBlock + snapshot) * channels + channel) * 2;
     block[dst] = spectrum[src];
     block[dst + 1] = spectrum[src + 1];
+  }
+}
+
+/**
+ * Splits the selected bins of a two-channel spectrum (StftKernel.realPair) into channels
+ * `channel` (real part input) and `channel + 1` (imaginary part input) of a snapshot block.
+ * Bins must satisfy 0 < k < nfft/2 (real input), so nfft − k is a valid mirror bin.
+ */
+export function splitPairBins(
+  spectrum: Float64Array,
+  nfft: number,
+  bins: Int32Array,
+  block: SnapshotBlock,
+  snapshot: number,
+  channel: number,
+  channels: number,
+  snapshotsPerBlock: number,
+): void {
+  const nb = bins.length;
+  for (let b = 0; b < nb; b++) {
+    const k = bins[b];
+    const zr = spectrum[2 * k];
+    const zi = spectrum[2 * k + 1];
+    const wr = spectrum[2 * (nfft - k)];
+    const wi = spectrum[2 * (nfft - k) + 1];
+    const dst = ((b * snapshotsPerBlock + snapshot) * channels + channel) * 2;
+    block[dst] = 0.5 * (zr + wr);
+    block[dst + 1] = 0.5 * (zi - wi);
+    block[dst + 2] = 0.5 * (zi + wi);
+    block[dst + 3] = 0.5 * (wr - zr);
   }
 }
 

@@ -2,7 +2,7 @@
  * STFT of one frame on every channel, scattered into a snapshot block (or the snapshot ring,
  * which uses the same layout): X_m[k] for the selected bins, channel order = element order.
  */
-import { StftKernel, scatterBins } from '../dsp/stft.js';
+import { StftKernel, scatterBins, splitPairBins } from '../dsp/stft.js';
 import type { WindowKind } from '../dsp/windows.js';
 import type { SampleCursor } from './sample-cursor.js';
 
@@ -30,10 +30,23 @@ export class FrameTransformer {
   transform(cursor: SampleCursor, firstSample: number, target: Float64Array, slot: number, slotsPerBin: number): void {
     const t0 = performance.now();
     const at = cursor.indexOf(firstSample);
-    for (let c = 0; c < this.channels; c++) {
-      if (this.complex) this.kernel.complex(this.spectrum, cursor.buffers[c], at);
-      else this.kernel.real(this.spectrum, cursor.buffers[c], at);
-      scatterBins(this.spectrum, this.bins, target, slot, c, this.channels, slotsPerBin);
+    const nc = this.channels;
+    if (this.complex) {
+      for (let c = 0; c < nc; c++) {
+        this.kernel.complex(this.spectrum, cursor.buffers[c], at);
+        scatterBins(this.spectrum, this.bins, target, slot, c, nc, slotsPerBin);
+      }
+    } else {
+      // Real input: two channels per complex transform (stft.ts realPair), odd one out alone.
+      let c = 0;
+      for (; c + 1 < nc; c += 2) {
+        this.kernel.realPair(this.spectrum, cursor.buffers[c], cursor.buffers[c + 1], at);
+        splitPairBins(this.spectrum, this.nfft, this.bins, target, slot, c, nc, slotsPerBin);
+      }
+      if (c < nc) {
+        this.kernel.real(this.spectrum, cursor.buffers[c], at);
+        scatterBins(this.spectrum, this.bins, target, slot, c, nc, slotsPerBin);
+      }
     }
     this.fftMs += performance.now() - t0;
   }
