@@ -26,6 +26,20 @@
  * CPU second of the process (wall 229 s → 80 s at load 15 and 14). Target still not met: the
  * engine now splits into eigenvalues ≈ 120–170, covariance ≈ 90–115, MPDR ≈ 110–160,
  * Cholesky ≈ 30, conventional ≈ 15–25; the job adds the FFT stage.
+ * Third round (quieter machine at the start, load 3 → 6–10 later; CPU µs per window-bin):
+ *   processWindow, window hop 32   462 (load 3) → 408 (load 6)
+ *   eigenvalues                    153 → 94: square-root-free rational QL (tqlrat) on the
+ *                                  squared off-diagonals instead of QL with Givens rotations;
+ *                                  the QL part alone 35–41 → 17–19 µs (32×32). A Householder
+ *                                  step fusing the rank-two update with the next step's A·v
+ *                                  (single rows) measured 57–69 against 52–65 µs for the
+ *                                  two-row unfused form, so it was not kept.
+ *   FFT stage (job)                fft.js: one complex 512-point transform ≈ 11–12 µs against
+ *                                  ≈ 8–9 µs for one real one, so two real channels per complex
+ *                                  transform (stft.ts realPair + splitPairBins) ≈ 30 % less;
+ *                                  job FFT share 25.9 % → 18.8 %.
+ * Whole job: 17.7× (load 3.0, wall 16.0×) → 20.4× real time per CPU second (load 9.4, where
+ * CPU time itself is inflated, wall only 6.0×).
  */
 import { parseArgs } from 'node:util';
 import { allocateWindowResult, createWindowEngine } from '../worker/dsp/window-engine.js';
