@@ -43,6 +43,8 @@ export class ChangeFeed {
   private again = false;
   private stopped = false;
   private unlisten: (() => Promise<void>) | undefined;
+  private listenConn: PgListenClient | undefined;
+  private relistenTimer: NodeJS.Timeout | undefined;
 
   constructor(private readonly o: ChangeFeedOptions) {}
 
@@ -128,19 +130,74 @@ export class ChangeFeed {
       const pglite = client as { listen(channel: string, cb: (payload: string) => void): Promise<() => Promise<void>> };
       return pglite.listen(LIVE_NOTIFY_CHANNEL, () => this.wake());
     }
-    const pool = client as { connect(): Promise<PgListenClient> };
-    const conn = await pool.connect();
-    conn.on('notification', () => this.wake());
-    await conn.query(`LISTEN ${LIVE_NOTIFY_CHANNEL}`);
+    await this.listenOnPostgres(client as PgListenPool);
     return async () => {
+      clearTimeout(this.relistenTimer);
+      const conn = this.listenConn;
+      this.listenConn = undefined;
+      if (!conn) return;
       await conn.query(`UNLISTEN ${LIVE_NOTIFY_CHANNEL}`).catch(() => undefined);
       conn.release();
     };
+  }
+
+  /**
+   * The listening connection is checked out of the pool for good, so the pool no longer handles
+   * its errors: without a handler of our own, a PostgreSQL restart or a killed backend would be
+   * an uncaught 'error' event and take the whole server down. On error the connection is
+   * discarded and a new one listens after a pause (the poll covers the meantime; one extra
+   * poll after re-listening picks up what changed while deaf).
+   */
+  private async listenOnPostgres(pool: PgListenPool): Promise<void> {
+    const conn = await pool.connect();
+    let lost = false;
+    conn.on('error', (e: Error) => {
+      if (lost) return;
+      lost = true;
+      if (this.listenConn === conn) this.listenConn = undefined;
+      conn.release(e); // an error argument makes the pool destroy the connection
+      if (this.stopped) return;
+      this.o.onError(new Error(`the LISTEN connection was lost (${e.message}); polling until it is back`));
+      this.relisten(pool, 1);
+    });
+    conn.on('notification', () => this.wake());
+    try {
+      await conn.query(`LISTEN ${LIVE_NOTIFY_CHANNEL}`);
+    } catch (e) {
+      if (!lost) {
+        lost = true;
+        conn.release(e as Error);
+      }
+      throw e;
+    }
+    this.listenConn = conn;
+  }
+
+  private relisten(pool: PgListenPool, attempt: number): void {
+    if (this.stopped) return;
+    const delay = Math.min(30_000, 500 * 2 ** (attempt - 1));
+    this.relistenTimer = setTimeout(() => {
+      this.listenOnPostgres(pool).then(
+        () => {
+          if (this.stopped) void this.unlisten?.();
+          this.wake();
+        },
+        (e: unknown) => {
+          if (attempt === 1 || attempt % 10 === 0) this.o.onError(new Error(`LISTEN ${LIVE_NOTIFY_CHANNEL} still failing (${(e as Error).message}); retrying`));
+          this.relisten(pool, attempt + 1);
+        },
+      );
+    }, delay);
   }
 }
 
 interface PgListenClient {
   on(event: 'notification', cb: () => void): void;
+  on(event: 'error', cb: (e: Error) => void): void;
   query(text: string): Promise<unknown>;
-  release(): void;
+  release(err?: Error): void;
+}
+
+interface PgListenPool {
+  connect(): Promise<PgListenClient>;
 }
