@@ -32,6 +32,7 @@ export function toJobDto(row: JobRow & { ownerName?: string }): JobDto {
     lastError: row.lastError,
     partial: row.partial,
     rerunOf: row.rerunOf,
+    batchId: row.batchId,
     createdAt: row.createdAt.toISOString(),
     startedAt: iso(row.startedAt),
     finishedAt: iso(row.finishedAt),

@@ -12,6 +12,7 @@ export async function listJobs(
 ): Promise<{ items: (JobRow & { ownerName: string })[]; total: number }> {
   const where: SQL[] = [];
   if (q.state) where.push(inArray(jobs.state, Array.isArray(q.state) ? q.state : [q.state]));
+  if (q.batch !== undefined) where.push(eq(jobs.batchId, q.batch));
   if (q.owner !== undefined) where.push(eq(jobs.ownerId, q.owner === 'me' ? viewerId : q.owner));
   const cond = where.length ? and(...where) : undefined;
   const column = { created: jobs.createdAt, priority: jobs.priority, state: jobs.state, name: jobs.name, updated: jobs.updatedAt }[q.sort];

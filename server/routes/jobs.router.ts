@@ -13,6 +13,7 @@ import type { Actor } from '../queue/actor.js';
 import { getJob } from '../queue/get-job.js';
 import { toJobDto } from '../queue/job-dto.js';
 import { listJobs } from '../queue/list-jobs.js';
+import { mountJobBatchRoutes } from './job-batches.routes.js';
 import { resultCsvHandler } from './results.router.js';
 
 export const actorOf = (req: Request): Actor => ({ kind: 'user', userId: req.user!.id, role: req.user!.role, email: req.user!.email });
@@ -47,6 +48,9 @@ export function jobsRouter(ctx: AppContext): Router {
     const job = await queueService(ctx).submit(input, actorOf(req));
     res.status(201).json({ job: toJobDto(job), estimates });
   });
+
+  // Before '/:id' so "batch"/"batches" are not read as job ids.
+  mountJobBatchRoutes(router, ctx, { queue: () => queueService(ctx), actor: actorOf });
 
   router.get('/', async (req, res) => {
     const q = listJobsQuerySchema.parse(req.query);

@@ -57,6 +57,8 @@ export const jobSchema = z.object({
   lastError: z.string().nullable(),
   partial: z.boolean(),
   rerunOf: z.number().int().nullable(),
+  /** The batch submission (POST /api/jobs/batch) that created this job, if any. */
+  batchId: z.number().int().nullable().optional(),
   createdAt: z.string(),
   startedAt: z.string().nullable(),
   finishedAt: z.string().nullable(),
@@ -95,6 +97,7 @@ export const listJobsQuerySchema = z.object({
     return parts as JobState[];
   })]).optional(),
   owner: z.union([z.literal('me'), z.coerce.number().int()]).optional(),
+  batch: z.coerce.number({ error: 'batch must be a batch id (a whole number).' }).int('batch must be a batch id (a whole number).').positive('batch must be a positive batch id.').optional(),
   sort: z.enum(['created', 'priority', 'state', 'name', 'updated'], { error: 'sort must be one of created, priority, state, name, updated.' }).default('created'),
   order: z.enum(['asc', 'desc'], { error: 'order must be asc or desc.' }).default('desc'),
   limit: z.coerce.number().int().min(1, 'limit must be at least 1.').max(200, 'limit is at most 200.').default(50),
