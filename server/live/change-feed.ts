@@ -45,6 +45,8 @@ export class ChangeFeed {
   private unlisten: (() => Promise<void>) | undefined;
   private listenConn: PgListenClient | undefined;
   private relistenTimer: NodeJS.Timeout | undefined;
+  /** Listening connections already handed back to the pool (release twice throws). */
+  private readonly releasedConns = new WeakSet<PgListenClient>();
 
   constructor(private readonly o: ChangeFeedOptions) {}
 
@@ -130,13 +132,23 @@ export class ChangeFeed {
       const pglite = client as { listen(channel: string, cb: (payload: string) => void): Promise<() => Promise<void>> };
       return pglite.listen(LIVE_NOTIFY_CHANNEL, () => this.wake());
     }
-    await this.listenOnPostgres(client as PgListenPool);
+    const pool = client as PgListenPool;
+    await this.listenOnPostgres(pool).catch((e: unknown) => {
+      // PostgreSQL not reachable for LISTEN right now: poll, and keep trying to listen.
+      this.o.onError(new Error(`LISTEN ${LIVE_NOTIFY_CHANNEL} failed (${(e as Error).message}); polling until it works`));
+      this.relisten(pool, 1);
+    });
     return async () => {
       clearTimeout(this.relistenTimer);
       const conn = this.listenConn;
       this.listenConn = undefined;
       if (!conn) return;
       await conn.query(`UNLISTEN ${LIVE_NOTIFY_CHANNEL}`).catch(() => undefined);
+      if (this.releasedConns.has(conn)) return; // lost while unlistening: its error handler released it
+      this.releasedConns.add(conn);
+      // Back to the pool, which watches idle connections itself: our handlers must not release it twice.
+      conn.removeAllListeners('error');
+      conn.removeAllListeners('notification');
       conn.release();
     };
   }
@@ -150,10 +162,9 @@ export class ChangeFeed {
    */
   private async listenOnPostgres(pool: PgListenPool): Promise<void> {
     const conn = await pool.connect();
-    let lost = false;
     conn.on('error', (e: Error) => {
-      if (lost) return;
-      lost = true;
+      if (this.releasedConns.has(conn)) return;
+      this.releasedConns.add(conn);
       if (this.listenConn === conn) this.listenConn = undefined;
       conn.release(e); // an error argument makes the pool destroy the connection
       if (this.stopped) return;
@@ -164,8 +175,8 @@ export class ChangeFeed {
     try {
       await conn.query(`LISTEN ${LIVE_NOTIFY_CHANNEL}`);
     } catch (e) {
-      if (!lost) {
-        lost = true;
+      if (!this.releasedConns.has(conn)) {
+        this.releasedConns.add(conn);
         conn.release(e as Error);
       }
       throw e;
@@ -195,6 +206,7 @@ interface PgListenClient {
   on(event: 'notification', cb: () => void): void;
   on(event: 'error', cb: (e: Error) => void): void;
   query(text: string): Promise<unknown>;
+  removeAllListeners(event: string): void;
   release(err?: Error): void;
 }
 

@@ -130,11 +130,14 @@ if (!process.env.TEST_DATABASE_URL) {
       const [wav] = await srv.ctx.db.select().from(recordings).where(eq(recordings.name, 'gannet-ledge-8ch.wav'));
       expect(wav?.state, 'demo WAV inspected').to.equal('ready');
 
+      // A finer fan than the demo's (4× the beams) keeps the job running for several seconds even
+      // on a fast machine, so the socket can be dropped while it is surely still running.
+      const slowParams = { ...demoJobParams(1), beams: { azimuthFromDeg: -90, azimuthToDeg: 90, azimuthStepDeg: 0.25 } };
       const first = await open(wsUrl(srv), cookieOf(analyst));
       first.ws.send(JSON.stringify({ type: 'subscribe', topics: ['jobs', 'queue'] }));
       await until('welcome', () => first.seen.some((m) => m.type === 'welcome'));
 
-      const res = await analyst.post('/api/jobs', { name: 'live on PostgreSQL', recordingId: wav.id, params: demoJobParams(1) });
+      const res = await analyst.post('/api/jobs', { name: 'live on PostgreSQL', recordingId: wav.id, params: slowParams });
       expect(res.status, await res.clone().text()).to.equal(201);
       const { job } = (await res.json()) as { job: JobDto };
       first.ws.send(JSON.stringify({ type: 'subscribe', topics: [`job:${job.id}`] }));
@@ -182,6 +185,7 @@ if (!process.env.TEST_DATABASE_URL) {
       );
       await until('all windows', () => have + windowsOf(second.seen).length >= final.totalWindows!, 30_000);
       second.ws.close();
+      console.log(`      dropped after ${have} of ${final.totalWindows} windows; states seen ${[...statesBefore, '|', ...statesOf(second.seen, job.id)].join(' ')}`);
 
       // What the socket ended with is what the database holds.
       const db = (await analyst.getJson<{ job: JobDto }>(`/api/jobs/${job.id}`)).job;
