@@ -38,8 +38,11 @@
  *                                  ≈ 8–9 µs for one real one, so two real channels per complex
  *                                  transform (stft.ts realPair + splitPairBins) ≈ 30 % less;
  *                                  job FFT share 25.9 % → 18.8 %.
- * Whole job: 17.7× (load 3.0, wall 16.0×) → 20.4× real time per CPU second (load 9.4, where
- * CPU time itself is inflated, wall only 6.0×).
+ * Whole job: 17.7× (load 3.0, wall 16.0×) → 19.6× (load 4.4, wall 16.3×) and 20.4× (load 9.4,
+ * wall 6.0×) real time per CPU second: at the target, not clearly past it. FFT stage 8.3 → 6.1 s
+ * of wall time at similar load; the solve share did not move measurably in the job run despite
+ * the eigenvalue gain here (load noise). Left: covariance ≈ 115, Q and Q² ≈ 125, eigenvalues'
+ * Householder part ≈ 55–65 µs.
  */
 import { parseArgs } from 'node:util';
 import { allocateWindowResult, createWindowEngine } from '../worker/dsp/window-engine.js';
