@@ -18,6 +18,7 @@ import { validateParamsAgainstRecording, type RecordingInfo } from '../../../../
 import { ApiService } from '../../core/api.service';
 import { CALLER_HANDLES_ERRORS } from '../../core/http-context';
 import { PageHeaderComponent } from '../../ui/page-header.component';
+import { submitBatchResponseSchema } from '../../../../shared/api/job-batches.js';
 import { arrayListSchema, recordingListSchema, submitAnswerSchema } from '../jobs-api';
 import { AdvisorPanelComponent } from './advisor-panel.component';
 import { adviseJob } from './job-advice';
@@ -43,6 +44,8 @@ export class JobFormPageComponent {
   protected readonly form = new FormGroup({
     name: new FormControl('', { nonNullable: true }),
     recordingId: new FormControl<number | null>(null),
+    /** Further recordings: when any are chosen, the form submits a batch (one job per recording). */
+    extraRecordingIds: new FormControl<number[]>([], { nonNullable: true }),
     arrayId: new FormControl<number | null>(null),
     fLoHz: new FormControl(150, { nonNullable: true }),
     fHiHz: new FormControl(1400, { nonNullable: true }),
@@ -143,14 +146,24 @@ export class JobFormPageComponent {
     };
     this.submitting.set(true);
     this.serverProblems.set([]);
+    const extras = v.extraRecordingIds.filter((id) => id !== v.recordingId);
     try {
+      if (extras.length) {
+        const { recordingId, ...shared } = body;
+        const batchBody = { ...shared, recordingIds: [recordingId, ...extras] };
+        const answer = await firstValueFrom(this.api.post('/api/jobs/batch', batchBody, submitBatchResponseSchema, { context: new HttpContext().set(CALLER_HANDLES_ERRORS, true) }));
+        this.snack.open(`Queued batch “${answer.batch.name}”: ${answer.jobs.length} jobs, ${answer.estimates.windows} windows in all.`, 'OK', { duration: 5000 });
+        await this.router.navigate(['/jobs']);
+        return;
+      }
       const answer = await firstValueFrom(this.api.post('/api/jobs', body, submitAnswerSchema, { context: new HttpContext().set(CALLER_HANDLES_ERRORS, true) }));
       this.snack.open(`Queued “${answer.job.name}”: ${answer.estimates.windows} windows.`, 'OK', { duration: 5000 });
       await this.router.navigate(['/jobs', answer.job.id]);
     } catch (e) {
       if (e instanceof HttpErrorResponse) {
-        const err = (e.error as { error?: { message?: string; details?: { problems?: { path: string; message: string }[] } } })?.error;
-        this.serverProblems.set(err?.details?.problems ?? [{ path: '', message: err?.message ?? `The server refused the job (${e.status}).` }]);
+        const err = (e.error as { error?: { message?: string; details?: { problems?: { path: string; message: string }[]; recordings?: { recordingName: string | null; recordingId: number; message: string }[] } } })?.error;
+        const perRecording = err?.details?.recordings?.map((r) => ({ path: 'recordingId', message: `${r.recordingName ?? `Recording ${r.recordingId}`}: ${r.message}` }));
+        this.serverProblems.set(perRecording ?? err?.details?.problems ?? [{ path: '', message: err?.message ?? `The server refused the job (${e.status}).` }]);
       } else throw e;
     } finally {
       this.submitting.set(false);
