@@ -73,7 +73,7 @@ describe('runner: bearing of a plane wave', function () {
 
   it('puts the broadband power peak within one beam step of an off-grid true bearing (MPDR and conventional)', async () => {
     // Oracle: the scene's exact plane-wave delays τ_n = p_n·u/c (CONVENTIONS.md geometry; the
-    // plane-wave model of Van Trees 2002, Optimum Array Processing §2.2, cited from memory).
+    // narrowband plane-wave model; common practice, see CONVENTIONS in the README).
     const truth = 23.3;
     const wav = await scene('off-grid', [{ azimuthDeg: truth, tonesHz: TONES, amplitude: 0.1 }]);
     for (const beamformer of [{ kind: 'mpdr' }, { kind: 'conventional' }] as const) {
