@@ -29,6 +29,10 @@ export async function openDatabase(opts: { dataDir: string; databaseUrl?: string
     const { drizzle } = await import('drizzle-orm/node-postgres');
     const { migrate } = await import('drizzle-orm/node-postgres/migrator');
     const pool = new pg.Pool({ connectionString: opts.databaseUrl, max: 10 });
+    // An idle pooled connection that the server ends (restart, pg_terminate_backend, a dropped
+    // database) emits 'error' on the pool; unhandled, that would crash the process. The pool
+    // discards the broken client by itself and opens a new one on the next query.
+    pool.on('error', (e) => console.warn(`PostgreSQL closed an idle connection: ${e.message}`));
     const db = drizzle(pool, { schema, casing: 'snake_case' });
     await migrate(db, { migrationsFolder: MIGRATIONS_FOLDER });
     return { db: db as unknown as AppDb, kind: 'postgres', close: () => pool.end() };
