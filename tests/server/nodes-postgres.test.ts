@@ -89,12 +89,13 @@ suite('scale-out: two headless nodes on PostgreSQL', function () {
     const owner = await insertTestUser(h);
     const actor: Actor = { kind: 'user', userId: owner, role: 'analyst', email: 'a@test' };
     const shortRec = await insertReadyRecording(h, await writeSceneWav(dir, 2, 'short.wav'), owner);
-    const longRec = await insertReadyRecording(h, await writeSceneWav(dir, 12, 'long.wav'), owner);
+    // long enough (thousands of windows) that the node is still inside it well after its first stored checkpoint
+    const longRec = await insertReadyRecording(h, await writeSceneWav(dir, 60, 'long.wav'), owner);
     const submit = (name: string, recordingId: number, windowHop: number, priority = 0) =>
       enqueueJob(h.db, { name, ownerId: owner, params: sceneParams(windowHop), paramsVersion: 1, recordingId, arraySnapshot: SCENE_ARRAY, priority, maxAttempts: 3 }, actor);
 
     // the long job goes first (highest priority) so a node is surely in the middle of it
-    const long = await submit('long', longRec, 2, 10);
+    const long = await submit('long', longRec, 1, 10);
     const small = [];
     for (let i = 0; i < 30; i++) small.push(await submit(`small ${i}`, shortRec, 16));
 

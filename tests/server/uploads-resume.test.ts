@@ -21,6 +21,24 @@ const ROOT = path.resolve(import.meta.dirname, '../..');
 interface ServerProcess {
   proc: ChildProcess;
   url: string;
+  /** Everything the server printed so far (stdout and stderr), for failure messages. */
+  output: () => string;
+}
+
+/**
+ * Fails with the phase's name and the server's output instead of letting the whole test time
+ * out silently, so a slow or stuck step on CI says which step it was.
+ */
+async function within<T>(ms: number, phase: string, server: () => ServerProcess | undefined, work: Promise<T>): Promise<T> {
+  let timer: NodeJS.Timeout | undefined;
+  const deadline = new Promise<never>((_, reject) => {
+    timer = setTimeout(() => reject(new Error(`${phase}: not done after ${ms / 1000} s. Server output:\n${server()?.output().slice(-4000) ?? '(no server)'}`)), ms);
+  });
+  try {
+    return await Promise.race([work, deadline]);
+  } finally {
+    clearTimeout(timer);
+  }
 }
 
 function startServerProcess(dataDir: string): Promise<ServerProcess> {
@@ -32,13 +50,26 @@ function startServerProcess(dataDir: string): Promise<ServerProcess> {
     });
     let out = '';
     let err = '';
+    const output = () => `${out}${err ? `\n[stderr]\n${err}` : ''}`;
     proc.stdout!.on('data', (d: Buffer) => {
       out += d.toString();
       const m = /listening on (http:\/\/\S+)/.exec(out);
-      if (m) resolve({ proc, url: m[1] });
+      if (m) resolve({ proc, url: m[1], output });
     });
     proc.stderr!.on('data', (d: Buffer) => (err += d.toString()));
     proc.on('exit', (code) => reject(new Error(`server exited (${code}) before listening: ${err}`)));
+    setTimeout(() => reject(new Error(`server did not listen within 120 s:\n${output()}`)), 120_000).unref();
+  });
+}
+
+/**
+ * Resolves when the process has ended. A process killed by a signal keeps exitCode null and
+ * sets signalCode, and its 'exit' event may already have fired, so both are checked.
+ */
+function exited(proc: ChildProcess): Promise<void> {
+  return new Promise((resolve) => {
+    if (proc.exitCode !== null || proc.signalCode !== null) resolve();
+    else proc.once('exit', () => resolve());
   });
 }
 
@@ -51,7 +82,7 @@ function peakRssMiB(pid: number): number {
 const signIn = (url: string): Promise<TestClient> => signInDemo(url, 'analyst');
 
 describe(`uploads survive a killed server (${Math.round(SIZE / MiB)} MiB)`, function () {
-  this.timeout(HEAVY ? 1_800_000 : 300_000);
+  this.timeout(HEAVY ? 1_800_000 : 720_000);
   let tmp: string;
   let running: ServerProcess | undefined;
 
@@ -105,18 +136,20 @@ describe(`uploads survive a killed server (${Math.round(SIZE / MiB)} MiB)`, func
         }
       }
     };
-    await Promise.all([worker(), worker(), worker()]);
+    const slow = HEAVY ? 10 : 1;
+    const srv = () => running;
+    await within(120_000 * slow, 'phase 1 (sending until half is acknowledged)', srv, Promise.all([worker(), worker(), worker()]));
     sendingMs += Date.now() - t0;
     log(`phase 1 done, ${acknowledged.size} acknowledged`);
     expect(killed).to.equal(true);
-    await new Promise((r) => running!.proc.once('exit', r).exitCode !== null && r(undefined));
+    await within(30_000, 'waiting for the killed server to exit', srv, exited(running!.proc));
 
     // Phase 2: restart on the same DATA_DIR; the server still knows every acknowledged chunk.
     log('killed');
     running = await startServerProcess(dataDir);
     log('restarted');
     client = await signIn(running.url);
-    const resumed = await client.getJson<UploadSession>(`/api/uploads/${session.id}`);
+    const resumed = await within(60_000, 'reading the upload session after the restart', srv, client.getJson<UploadSession>(`/api/uploads/${session.id}`));
     for (const i of acknowledged) expect(resumed.received, `chunk ${i} was acknowledged before the kill`).to.include(i);
     const peakAtRestart = peakRssMiB(running.proc.pid!);
     const t1 = Date.now();
@@ -130,17 +163,17 @@ describe(`uploads survive a killed server (${Math.round(SIZE / MiB)} MiB)`, func
         sentBytes += Math.min(session.chunkBytes, size - index * session.chunkBytes);
       }
     };
-    await Promise.all([worker2(), worker2(), worker2()]);
+    await within(120_000 * slow, 'phase 2 (sending the missing chunks)', srv, Promise.all([worker2(), worker2(), worker2()]));
     const phase2Ms = Date.now() - t1;
     sendingMs += phase2Ms;
     const phase2Bytes = missing.reduce((s, i) => s + Math.min(session.chunkBytes, size - i * session.chunkBytes), 0);
     const peakAfter = peakRssMiB(running.proc.pid!);
 
     log('phase 2 done');
-    const done = await client.post(`/api/uploads/${session.id}/complete`);
+    const done = await within(60_000, 'completing the upload', srv, client.post(`/api/uploads/${session.id}/complete`));
     expect(done.status).to.equal(202);
     const { recordingId } = (await done.json()) as { recordingId: number };
-    const rec = await waitInspected(client, recordingId, HEAVY ? 900_000 : 240_000);
+    const rec = await within(HEAVY ? 900_000 : 200_000, 'inspecting the uploaded recording', srv, waitInspected(client, recordingId, HEAVY ? 900_000 : 200_000));
     expect(rec.state, JSON.stringify(rec.rejectReasons)).to.equal('ready');
     expect(rec.sha256).to.equal(sha256);
     expect(rec.sizeBytes).to.equal(size);
