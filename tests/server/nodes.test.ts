@@ -116,22 +116,27 @@ describe('job node: real beamform jobs in compute children (pglite)', function (
     expect(reference.weights.split('\n').filter((l) => !l.startsWith('#')).length).to.be.greaterThan(1000);
   });
 
-  // Timing-sensitive: with the faster engine the first kill can land before the first checkpoint.
-  // The 20-kill version in `npm run test:faults` (tests/faults/) covers the same property; run this
-  // one too with NULLSMITH_FAULTS=1.
-  (process.env.NULLSMITH_FAULTS === '1' ? it : it.skip)('survives SIGKILL of its compute child at random points: retried from the checkpoint, results byte-identical', async () => {
-    const job = await submit('killed', { maxAttempts: 6 });
+  it('survives SIGKILL of its compute child at random points: retried from the checkpoint, results byte-identical', async () => {
+    // A 30-second recording (about a thousand windows) so both kills land mid-job on a fast machine;
+    // its uninterrupted run is the reference.
+    const longRec = await insertReadyRecording(h, await writeSceneWav(dir, 30, 'long.wav'), owner);
+    const uninterrupted = await submit('long reference', { recordingId: longRec });
+    expect(await waitFor(uninterrupted.id, ['succeeded', 'failed'])).to.equal('succeeded');
+    const longReference = await outputs(uninterrupted.id);
+    const job = await submit('killed', { maxAttempts: 6, recordingId: longRec });
     const kills: { atWindow: number; checkpoint: number }[] = [];
     let total = 0;
     for (let k = 0; k < 2; k++) {
       await waitFor(job.id, ['running']);
       // a random point: after the job passes a random fraction of its windows
       const fraction = 0.15 + Math.random() * 0.6;
+      // once a checkpoint exists, and (after a retry) once this attempt has done windows of its own
+      const resumedFrom = kills.at(-1)?.checkpoint ?? 0;
       for (;;) {
         const j = await getJob(h.db, job.id);
         total = j.totalWindows ?? total;
         if (j.state !== 'running') break;
-        if (total > 0 && j.windowsDone >= fraction * total && pool.busyPids().length) {
+        if (total > 0 && j.checkpointWindow > 0 && j.windowsDone > resumedFrom && j.windowsDone >= fraction * total && pool.busyPids().length) {
           for (const pid of pool.busyPids()) process.kill(pid, 'SIGKILL');
           kills.push({ atWindow: j.windowsDone, checkpoint: j.checkpointWindow });
           break;
@@ -151,9 +156,9 @@ describe('job node: real beamform jobs in compute children (pglite)', function (
     for (const r of retries) expect(r.message).to.match(/exited on signal SIGKILL/);
     expect(history.filter((e) => e.toState === 'running').some((e) => /resuming at window [1-9]/.test(e.message ?? ''))).to.equal(true);
     const got = await outputs(job.id);
-    expect(got.records.equals(reference.records), 'windows.f32 differs from the uninterrupted run').to.equal(true);
-    expect(got.weights === reference.weights, 'weights.csv differs').to.equal(true);
-    expect(got.sinr === reference.sinr, 'sinr.csv differs').to.equal(true);
+    expect(got.records.equals(longReference.records), 'windows.f32 differs from the uninterrupted run').to.equal(true);
+    expect(got.weights === longReference.weights, 'weights.csv differs').to.equal(true);
+    expect(got.sinr === longReference.sinr, 'sinr.csv differs').to.equal(true);
     console.log(`      killed at windows ${kills.map((k) => `${k.atWindow} (checkpoint ${k.checkpoint})`).join(', ')} of ${total}`);
   });
 
