@@ -4,7 +4,7 @@ import { arrayRequestSchema } from '../../shared/api/arrays.js';
 import { auditListResponseSchema, auditQuerySchema } from '../../shared/api/audit.js';
 import { loginRequestSchema, sessionResponseSchema } from '../../shared/api/auth.js';
 import { healthResponseSchema } from '../../shared/api/health.js';
-import { jobBatchSchema, submitBatchResponseSchema, submitBatchSchema } from '../../shared/api/job-batches.js';
+import { cancelBatchResponseSchema, jobBatchSchema, submitBatchResponseSchema, submitBatchSchema } from '../../shared/api/job-batches.js';
 import { jobSchema, listJobsQuerySchema, queueStatusSchema, setPrioritySchema, submitJobSchema, workerNodeSchema } from '../../shared/api/jobs.js';
 import { outboxQuerySchema, outboxResponseSchema } from '../../shared/api/outbox.js';
 import { profilePatchSchema, profileSchema } from '../../shared/api/profile.js';
@@ -106,6 +106,7 @@ export const API_CATALOGUE: ApiOperation[] = [
   op('POST', '/api/jobs', 'Jobs', 'analyst', 'Queue a beamforming job.', { body: submitJobSchema, status: 201 }),
   op('POST', '/api/jobs/batch', 'Jobs', 'analyst', 'Queue one job per recording (a list of ids or an archive folder selection) with the same parameters; refused whole if any recording fails its checks.', { body: submitBatchSchema, response: submitBatchResponseSchema, status: 201 }),
   op('GET', '/api/jobs/batches/:id', 'Jobs', 'analyst', 'One batch with how many of its jobs are in each state and its window progress.', { response: z.object({ batch: jobBatchSchema }) }),
+  op('POST', '/api/jobs/batches/:id/cancel', 'Jobs', 'analyst', 'Cancel every job of a batch that has not ended: queued ones at once, running ones after their window in progress (finished windows kept). The batch owner or the operations role.', { response: cancelBatchResponseSchema }),
   op('GET', '/api/jobs', 'Jobs', 'analyst', 'Jobs, filtered, sorted and paged.', { query: listJobsQuerySchema }),
   op('GET', '/api/jobs/:id', 'Jobs', 'analyst', 'One job with its state history.'),
   op('POST', '/api/jobs/:id/cancel', 'Jobs', 'analyst', 'Cancel a job (owner or operations); a running job stops after its current window.', { response: jobAnswer }),

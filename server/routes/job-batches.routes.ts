@@ -1,13 +1,14 @@
 import { eq, sql } from 'drizzle-orm';
 import type { Request, Router } from 'express';
 import { z } from 'zod';
-import { submitBatchSchema, type JobBatchDto } from '../../shared/api/job-batches.js';
-import type { JobState } from '../../shared/api/jobs.js';
+import { submitBatchSchema, type CancelBatchResponse, type JobBatchDto } from '../../shared/api/job-batches.js';
+import { isFinalJobState, type JobState } from '../../shared/api/jobs.js';
+import { roleAtLeast } from '../../shared/roles.js';
 import { requireRole } from '../auth/require-role.js';
 import type { AppContext } from '../context.js';
 import { jobBatches, type JobBatchRow } from '../db/schema/job-batches.js';
 import { jobs } from '../db/schema/jobs.js';
-import { notFound } from '../http/http-error.js';
+import { forbidden, HttpError, notFound } from '../http/http-error.js';
 import { prepareBeamformBatch } from '../nodes/job-batch-submission.js';
 import type { JobQueue } from '../nodes/job-queue.js';
 import type { Actor } from '../queue/actor.js';
@@ -30,7 +31,8 @@ const toBatchDto = (b: JobBatchRow): JobBatchDto => ({
 
 /**
  * Batch submission on /api/jobs: POST /batch queues one ordinary job per recording, GET
- * /batches/:id sums their states. Mounted before /:id so "batch" is never read as a job id.
+ * /batches/:id sums their states, POST /batches/:id/cancel cancels the ones not yet ended.
+ * Mounted before /:id so "batch" is never read as a job id.
  */
 export function mountJobBatchRoutes(router: Router, ctx: AppContext, deps: { queue: () => JobQueue; actor: (req: Request) => Actor }): void {
   router.post('/batch', requireRole('analyst'), async (req, res) => {
@@ -66,5 +68,38 @@ export function mountJobBatchRoutes(router: Router, ctx: AppContext, deps: { que
       totalWindows += Number(r.total);
     }
     res.json({ batch: { ...toBatchDto(batch), counts, windowsDone, totalWindows } });
+  });
+  router.post('/batches/:id/cancel', requireRole('analyst'), async (req, res) => {
+    const id = batchIdSchema.parse(req.params.id);
+    const [batch] = await ctx.db.select().from(jobBatches).where(eq(jobBatches.id, id));
+    if (!batch) throw notFound(`Batch ${id} does not exist; open the jobs list to find it.`);
+    if (batch.ownerId !== req.user!.id && !roleAtLeast(req.user!.role, 'operations')) {
+      throw forbidden(`Batch ${id} belongs to someone else; only its owner or the operations role may cancel it.`);
+    }
+    const members = await ctx.db.select({ id: jobs.id, state: jobs.state }).from(jobs).where(eq(jobs.batchId, id)).orderBy(jobs.id);
+    const answer: CancelBatchResponse = { batchId: id, cancelled: 0, stopping: 0, alreadyEnded: 0, message: '' };
+    for (const m of members) {
+      if (isFinalJobState(m.state)) {
+        answer.alreadyEnded++;
+        continue;
+      }
+      try {
+        // One job at a time through the ordinary cancel, so each is audited and announced live.
+        const r = await deps.queue().cancel(m.id, deps.actor(req));
+        if (r.immediate) answer.cancelled++;
+        else answer.stopping++;
+      } catch (e) {
+        // It ended between the list and its cancel (a race with its node): leave it as it is.
+        if (e instanceof HttpError && e.code === 'job_finished') answer.alreadyEnded++;
+        else throw e;
+      }
+    }
+    const parts = [
+      answer.cancelled ? `${answer.cancelled} queued job${answer.cancelled === 1 ? '' : 's'} cancelled` : '',
+      answer.stopping ? `${answer.stopping} running job${answer.stopping === 1 ? '' : 's'} stopping after the window in progress (finished windows are kept, marked partial)` : '',
+      answer.alreadyEnded ? `${answer.alreadyEnded} had already ended and ${answer.alreadyEnded === 1 ? 'was' : 'were'} left as ${answer.alreadyEnded === 1 ? 'it was' : 'they were'}` : '',
+    ].filter(Boolean);
+    answer.message = answer.cancelled + answer.stopping === 0 ? `Nothing to cancel in batch ${id}: every one of its ${members.length} jobs has already ended.` : `Batch ${id}: ${parts.join('; ')}.`;
+    res.json(answer);
   });
 }

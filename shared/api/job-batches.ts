@@ -60,3 +60,16 @@ export const submitBatchResponseSchema = z.object({
   estimates: z.object({ windows: z.number(), runSeconds: z.number(), outputBytes: z.number() }),
 });
 export type SubmitBatchResponse = z.infer<typeof submitBatchResponseSchema>;
+
+/** POST /api/jobs/batches/:id/cancel answer: what happened to the batch's unfinished jobs. */
+export const cancelBatchResponseSchema = z.object({
+  batchId: z.number().int(),
+  /** Queued or scheduled jobs that left the queue at once. */
+  cancelled: z.number().int(),
+  /** Running jobs asked to stop after their window in progress (finished windows are kept). */
+  stopping: z.number().int(),
+  /** Jobs that had already ended (succeeded, failed or cancelled) and were left as they are. */
+  alreadyEnded: z.number().int(),
+  message: z.string(),
+});
+export type CancelBatchResponse = z.infer<typeof cancelBatchResponseSchema>;

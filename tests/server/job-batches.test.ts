@@ -8,7 +8,7 @@ import fs from 'node:fs';
 import path from 'node:path';
 import { expect } from 'chai';
 import { eq } from 'drizzle-orm';
-import type { JobBatchDto, SubmitBatchResponse } from '../../shared/api/job-batches.js';
+import type { CancelBatchResponse, JobBatchDto, SubmitBatchResponse } from '../../shared/api/job-batches.js';
 import type { JobDto } from '../../shared/api/jobs.js';
 import { archiveRoots } from '../../server/db/schema/archive-roots.js';
 import { arrays } from '../../server/db/schema/arrays.js';
@@ -148,6 +148,38 @@ describe('job batches over HTTP', function () {
     const b = (await deep.json()) as SubmitBatchResponse;
     expect(b.jobs.map((j) => j.name).sort()).to.deep.equal(['dips all · dip-01.wav', 'dips all · dip-02.wav', 'dips all · dip-03.wav']);
     for (const j of [...a.jobs, ...b.jobs]) await operations.post(`/api/jobs/${j.id}/cancel`, {});
+  });
+
+  it('cancels what is left of a batch: only its owner or operations; ended jobs stay as they are, each cancel audited', async () => {
+    const made = await analyst.post('/api/jobs/batch', body({ name: 'night leg', runAfter: '2099-01-01T00:00:00Z' }));
+    expect(made.status, await made.clone().text()).to.equal(201);
+    const { batch, jobs: queued } = (await made.json()) as SubmitBatchResponse;
+    // one of the three ends before the batch cancel: it must be left alone
+    expect((await analyst.post(`/api/jobs/${queued[0].id}/cancel`, {})).status).to.equal(200);
+
+    await server.createUser({ email: 'other@batch.test', password, role: 'analyst' });
+    const other = await server.signIn({ email: 'other@batch.test', password });
+    let res = await other.post(`/api/jobs/batches/${batch.id}/cancel`, {});
+    expect(res.status).to.equal(403);
+    expect(await res.text()).to.match(/only its owner or the operations role/);
+
+    res = await analyst.post(`/api/jobs/batches/${batch.id}/cancel`, {});
+    expect(res.status, await res.clone().text()).to.equal(200);
+    const answer = (await res.json()) as CancelBatchResponse;
+    expect(answer).to.include({ batchId: batch.id, cancelled: 2, stopping: 0, alreadyEnded: 1 });
+    expect(answer.message).to.match(/2 queued jobs cancelled; 1 had already ended/);
+    for (const j of queued) expect((await analyst.getJson<{ job: JobDto }>(`/api/jobs/${j.id}`)).job.state).to.equal('cancelled');
+    const { batch: summed } = await analyst.getJson<{ batch: JobBatchDto }>(`/api/jobs/batches/${batch.id}`);
+    expect(summed.counts).to.deep.equal({ cancelled: 3 });
+    const entries = await server.ctx.db.select().from(audit).where(eq(audit.action, 'job.cancel'));
+    for (const j of queued) expect(entries.filter((e) => e.target === `job:${j.id}`)).to.have.length(1);
+
+    // a second cancel finds nothing left and says so; operations may cancel anyone's batch
+    res = await operations.post(`/api/jobs/batches/${batch.id}/cancel`, {});
+    expect(res.status).to.equal(200);
+    expect(((await res.json()) as CancelBatchResponse).message).to.match(/Nothing to cancel in batch \d+: every one of its 3 jobs has already ended/);
+    res = await analyst.post('/api/jobs/batches/424242/cancel', {});
+    expect(res.status).to.equal(404);
   });
 
   it('refuses batches signed out (401), from a read-only API token (403) and without the CSRF header', async () => {
