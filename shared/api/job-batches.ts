@@ -48,7 +48,7 @@ export const jobBatchSchema = z.object({
   pattern: z.string().nullable(),
   recursive: z.boolean().nullable(),
   createdAt: z.string(),
-  counts: z.record(jobStateSchema, z.number().int()).optional(),
+  counts: z.partialRecord(jobStateSchema, z.number().int()).optional(),
   windowsDone: z.number().int().optional(),
   totalWindows: z.number().int().optional(),
 });

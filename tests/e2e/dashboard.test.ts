@@ -207,4 +207,38 @@ describe('live dashboard in the browser', function () {
     await b.screenshot('jobs-page-after-cancel');
     expect(unexpected(b).slice(0, 8)).to.deep.equal([]);
   });
+
+  it('operations opens a batch from the jobs table and cancels its unfinished jobs', async function () {
+    const b = await launchBrowser({ baseUrl: server.url, viewport: { width: 1440, height: 1000 } });
+    browsers.push(b);
+    const { page } = b;
+    await signIn(page, server.url, OPS);
+    const recs = await api<{ items: { id: number; name: string; state: string }[] }>(page, 'GET', `${server.url}/api/recordings?q=gannet-ledge-8ch`);
+    const pick = (name: string) => recs.items.find((r) => r.name === name)!.id;
+    const recordingIds = [pick('gannet-ledge-8ch.wav'), pick('gannet-ledge-8ch-planar.raw')];
+    // Held for the night (runAfter far ahead), so both are still waiting when cancelled.
+    const made = await api<{ batch: { id: number }; jobs: { id: number }[] }>(page, 'POST', `${server.url}/api/jobs/batch`, {
+      name: 'Night pass',
+      recordingIds,
+      params: demoJobParams(),
+      runAfter: '2099-01-01T00:00:00Z',
+    });
+    await page.goto(`${server.url}/jobs`);
+    await page.getByTestId(`batch-of-${made.jobs[0].id}`).click();
+    const strip = page.getByTestId('batch-strip');
+    await strip.getByText(`Batch ${made.batch.id}`).waitFor();
+    await strip.getByText('Scheduled 2').waitFor();
+    expect(new URL(page.url()).searchParams.get('batch')).to.equal(String(made.batch.id));
+    expect(await page.locator('tr[data-job]').count()).to.equal(2);
+    await b.screenshot('jobs-page-batch');
+    await page.getByTestId('cancel-batch').click();
+    await page.getByTestId('confirm').click();
+    await page.getByText(`Batch ${made.batch.id}: 2 queued jobs cancelled.`).waitFor();
+    for (const j of made.jobs) await page.getByTestId(`state-${j.id}`).getByText('Cancelled').waitFor({ timeout: 30_000 });
+    await strip.getByText('Cancelled 2').waitFor();
+    expect(await page.getByTestId('cancel-batch').count()).to.equal(0);
+    await page.getByTestId('clear-batch').click();
+    expect(new URL(page.url()).searchParams.get('batch')).to.equal(null);
+    expect(unexpected(b).slice(0, 8)).to.deep.equal([]);
+  });
 });

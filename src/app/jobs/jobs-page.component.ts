@@ -15,7 +15,7 @@ import { MatSnackBar } from '@angular/material/snack-bar';
 import { MatSortModule, type Sort } from '@angular/material/sort';
 import { MatTableModule } from '@angular/material/table';
 import { MatTooltipModule } from '@angular/material/tooltip';
-import { RouterLink } from '@angular/router';
+import { ActivatedRoute, Router, RouterLink } from '@angular/router';
 import { Subject, debounceTime, firstValueFrom } from 'rxjs';
 import { JOB_PRIORITY_MAX, JOB_PRIORITY_MIN, JOB_STATES, isFinalJobState, type JobDto, type JobState, type QueueStatus } from '../../../shared/api/jobs.js';
 import { ApiService } from '../core/api.service';
@@ -24,6 +24,7 @@ import { LiveService } from '../core/live.service';
 import { SessionService } from '../core/session.service';
 import { EmptyStateComponent } from '../ui/empty-state.component';
 import { PageHeaderComponent } from '../ui/page-header.component';
+import { BatchStripComponent } from './batch-strip.component';
 import { ConfirmDialogComponent, type ConfirmData } from './confirm-dialog.component';
 import { STATE_LOOK, formatDuration, progressPercent, shortTime } from './job-format';
 import { jobActionSchema, jobListSchema, queueAnswerSchema, recordingListSchema } from './jobs-api';
@@ -35,6 +36,7 @@ type SortKey = 'created' | 'priority' | 'state' | 'name' | 'updated';
 @Component({
   selector: 'ns-jobs-page',
   imports: [
+    BatchStripComponent,
     EmptyStateComponent,
     FormsModule,
     LiveIndicatorComponent,
@@ -64,6 +66,7 @@ export class JobsPageComponent {
   private readonly dialog = inject(MatDialog);
   private readonly snack = inject(MatSnackBar);
   private readonly session = inject(SessionService);
+  private readonly router = inject(Router);
 
   protected readonly states = JOB_STATES;
   protected readonly look = STATE_LOOK;
@@ -75,6 +78,10 @@ export class JobsPageComponent {
 
   protected readonly stateFilter = signal<JobState[]>([]);
   protected readonly ownerFilter = signal<'all' | 'me'>('all');
+  /** Show only the jobs of one batch (?batch=N, so the view can be linked). */
+  protected readonly batchFilter = signal<number | null>(null);
+  /** Bumped on every reload so the batch strip's counts follow the table. */
+  protected readonly reloadCount = signal(0);
   protected readonly sort = signal<{ key: SortKey; order: 'asc' | 'desc' }>({ key: 'created', order: 'desc' });
   protected readonly page = signal({ index: 0, size: 25 });
 
@@ -92,6 +99,8 @@ export class JobsPageComponent {
 
   constructor() {
     const destroy = inject(DestroyRef);
+    const batch = Number(inject(ActivatedRoute).snapshot.queryParamMap.get('batch'));
+    if (Number.isInteger(batch) && batch > 0) this.batchFilter.set(batch);
     this.reloads.pipe(debounceTime(300), takeUntilDestroyed(destroy)).subscribe(() => void this.reload());
     this.live
       .watch(['jobs', 'queue'])
@@ -137,6 +146,13 @@ export class JobsPageComponent {
   protected setOwner(owner: 'all' | 'me'): void {
     this.ownerFilter.set(owner);
     this.page.update((p) => ({ ...p, index: 0 }));
+    void this.reload();
+  }
+
+  protected setBatch(batchId: number | null): void {
+    this.batchFilter.set(batchId);
+    this.page.update((p) => ({ ...p, index: 0 }));
+    void this.router.navigate([], { queryParams: { batch: batchId }, replaceUrl: true });
     void this.reload();
   }
 
@@ -199,12 +215,14 @@ export class JobsPageComponent {
     this.jobs.update((list) => list.map((j) => (j.id === job.id ? { ...job, ownerName: job.ownerName ?? j.ownerName } : j)));
   }
 
-  private async reload(): Promise<void> {
+  protected async reload(): Promise<void> {
     const s = this.sort();
     const p = this.page();
     const params: Record<string, string | number> = { sort: s.key, order: s.order, limit: p.size, offset: p.index * p.size };
     if (this.stateFilter().length) params['state'] = this.stateFilter().join(',');
     if (this.ownerFilter() === 'me') params['owner'] = 'me';
+    const batch = this.batchFilter();
+    if (batch !== null) params['batch'] = batch;
     const [list, queue] = await Promise.all([
       firstValueFrom(this.api.get('/api/jobs', jobListSchema, { params })),
       firstValueFrom(this.api.get('/api/queue', queueAnswerSchema)),
@@ -213,5 +231,6 @@ export class JobsPageComponent {
     this.total.set(list.total);
     this.queue.set(queue);
     this.loaded.set(true);
+    this.reloadCount.update((n) => n + 1);
   }
 }
