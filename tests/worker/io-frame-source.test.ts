@@ -10,6 +10,7 @@ import { join } from 'node:path';
 import { parseWavHeader } from '../../shared/formats/wav-header.js';
 import { openFrameSource } from '../../worker/io/open-frame-source.js';
 import { scanRecording } from '../../worker/io/scan-recording.js';
+import { inspectTask } from '../../worker/tasks/inspect.js';
 import { readRecordingDescription } from '../../worker/io/read-recording-description.js';
 import { frameSourceOptionsFromArray } from '../../worker/io/element-routing.js';
 import { generateScenario } from '../../samples/scenario/generate-scenario.js';
@@ -147,4 +148,28 @@ describe('scanRecording', () => {
       rmSync(dir, { recursive: true, force: true });
     }
   });
+
+  it('checks a SigMF core:sha512 against the data file: equal passes, different rejects with both digests (SigMF core spec, global core:sha512)', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'ns-scan512-'));
+    try {
+      const r = generateScenario({ outDir: dir, durationS: 0.25, channels: 2, spacingM: 0.5, sampleRate: 2000, format: 'sigmf', encoding: 'f32', complex: true, centerFrequencyHz: 500 });
+      const metaPath = r.dataFile.replace('.sigmf-data', '.sigmf-meta');
+      const meta = readFileSync(metaPath, 'utf8');
+      const d = await readRecordingDescription('sigmf', r.dataFile, { path: metaPath });
+      const scan = await scanRecording(r.dataFile, d, { bufferBytes: 1000 });
+      const truth = createHash('sha512').update(readFileSync(r.dataFile)).digest('hex');
+      expect(scan.sha512).to.equal(truth);
+      expect(d.sha512).to.equal(truth);
+      const ctx = { signal: new AbortController().signal, progress: () => undefined };
+      const payload = { recordingId: 1, filePath: r.dataFile, name: 'x.sigmf-data', declaredFormat: 'sigmf' as const, sidecar: meta, expectedSha256: null };
+      expect((await inspectTask.run(payload, ctx)).reasons).to.deep.equal([]);
+      const wrong = truth.replace(/^./, truth[0] === '0' ? '1' : '0');
+      const bad = await inspectTask.run({ ...payload, sidecar: meta.replace(truth, wrong) }, ctx);
+      expect(bad.reasons).to.have.length(1);
+      expect(bad.reasons[0]).to.contain(`hashes to sha512 ${truth}, not the core:sha512 ${wrong}`).and.match(/matching \.sigmf-data and \.sigmf-meta/);
+    } finally {
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
 });
+

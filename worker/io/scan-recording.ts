@@ -1,6 +1,6 @@
 /**
- * One sequential pass over a whole recording file for inspection: sha256 of every byte and
- * per-channel quality figures (file channel order, full scale = 1.0), in bounded memory with
+ * One sequential pass over a whole recording file for inspection: sha256 of every byte (and
+ * sha512 when the description carries a SigMF core:sha512 to check), and per-channel quality figures (file channel order, full scale = 1.0), in bounded memory with
  * progress. Complex samples count I and Q as separate values in the statistics.
  */
 import { createHash } from 'node:crypto';
@@ -20,6 +20,8 @@ export interface ScanOptions {
 
 export interface ScanResult {
   sha256: string;
+  /** sha512 of the whole file, computed only when the description declares one (SigMF core:sha512). */
+  sha512?: string;
   fileBytes: number;
   qc: ChannelQc[];
 }
@@ -43,6 +45,7 @@ export async function scanRecording(path: string, d: RecordingDescription, optio
       throw new RecordingFormatError(d.fileName, size, '(data file)', `the file is ${size} bytes but its header places samples up to byte ${dataEnd}: it is truncated`, 'Upload or copy the complete file again.');
     }
     const hash = createHash('sha256');
+    const hash512 = d.sha512 ? createHash('sha512') : null;
     const fb = bytesPerFrame(d);
     const bufferBytes = Math.max(fb, Math.floor((options.bufferBytes ?? DEFAULT_READ_BUFFER_BYTES) / fb) * fb);
     const buffer = Buffer.allocUnsafeSlow(bufferBytes);
@@ -64,6 +67,7 @@ export async function scanRecording(path: string, d: RecordingDescription, optio
           got += bytesRead;
         }
         hash.update(buffer.subarray(0, n));
+        hash512?.update(buffer.subarray(0, n));
         onBytes?.(n, position);
         position += n;
         options.onProgress?.(size === 0 ? 1 : position / size);
@@ -101,6 +105,7 @@ export async function scanRecording(path: string, d: RecordingDescription, optio
     options.onProgress?.(1);
     return {
       sha256: hash.digest('hex'),
+      ...(hash512 ? { sha512: hash512.digest('hex') } : {}),
       fileBytes: size,
       qc: acc.map((a, channel) => {
         const mean = a.n ? a.sum / a.n : 0;

@@ -8,7 +8,7 @@ import { PermanentTaskError, TaskAbortedError, type ComputeTask } from './comput
 
 /**
  * Recording inspection in a compute child: full header validation, then one pass over every
- * byte for the whole-file sha256 and per-channel QC (RMS, peak, clipping, DC, dead and flat
+ * byte for the whole-file sha256 (and the SigMF core:sha512 check when the metadata has one) and per-channel QC (RMS, peak, clipping, DC, dead and flat
  * flags). A bad file is not an error of the task: it comes back as reasons, so the recording
  * becomes 'rejected' with words a person can act on. Progress is in bytes.
  */
@@ -44,6 +44,12 @@ export const inspectTask: ComputeTask<InspectPayload, InspectResult> = {
       if (signal.aborted) throw new TaskAbortedError();
       if (!(e instanceof RecordingFormatError)) throw e;
       return { reasons: [e.message], sha256: '', sizeBytes, warnings: description.warnings };
+    }
+    if (description.sha512 && scan.sha512 !== description.sha512) {
+      reasons.push(
+        `${basename(p.filePath)} hashes to sha512 ${scan.sha512}, not the core:sha512 ${description.sha512} its SigMF metadata declares: ` +
+          'the data file was damaged, changed after the metadata was written, or belongs to other metadata. Copy or upload the matching .sigmf-data and .sigmf-meta again.',
+      );
     }
     if (p.expectedSha256 && p.expectedSha256 !== scan.sha256) {
       reasons.push(`The whole file hashes to sha256 ${scan.sha256}, not the ${p.expectedSha256} declared when it was uploaded: the file was damaged or changed on the way. Upload it again.`);
