@@ -112,7 +112,7 @@ export class RecordingService {
     this.assertMayChange(rec, user, 'delete');
     const [{ n }] = await this.db.select({ n: count() }).from(jobs).where(or(eq(jobs.recordingId, id), eq(jobs.trainingRecordingId, id)));
     if (n > 0) {
-      throw conflict(`Recording ${rec.name} was used by ${n} job${n === 1 ? '' : 's'}; deleting it would orphan their results. Delete those jobs first, or keep the recording.`, { jobs: n });
+      throw conflict(`Recording ${rec.name} was used by ${n} job${n === 1 ? '' : 's'}; it stays so their results and reruns keep their source.`, { jobs: n });
     }
     await this.db.delete(recordings).where(eq(recordings.id, id));
     if (rec.source !== 'archive') {

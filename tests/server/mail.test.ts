@@ -4,7 +4,9 @@
  * receiver writes. A relay that refuses connections shows retries, a logged failure, and a
  * job that is not failed by it.
  */
+import fs from 'node:fs';
 import net from 'node:net';
+import path from 'node:path';
 import { expect } from 'chai';
 import { asc, eq } from 'drizzle-orm';
 import { mailMessages, mailSends, userPreferences, users } from '../../server/db/schema/index.js';
@@ -81,8 +83,13 @@ describe('mail: job outcomes and digest through the built-in SMTP receiver', fun
   });
 
   it('mails owner and operations when a job fails, with the reason', async () => {
+    // A recording whose file vanished from disk after it was registered: a permanent failure.
+    const vanishing = path.join(server.dataDir, 'vanished.wav');
+    fs.copyFileSync(await writeSceneWav(server.dataDir, 2), vanishing);
+    const goneId = await insertReadyRecording({ db: server.ctx.db, kind: 'pglite', close: async () => undefined }, vanishing, analystId);
+    fs.rmSync(vanishing);
     const job = await queue.submit(
-      { name: 'Mail check failure', ownerId: analystId, params: sceneParams(8), paramsVersion: 1, recordingId: 999_999, arraySnapshot: SCENE_ARRAY, maxAttempts: 1 },
+      { name: 'Mail check failure', ownerId: analystId, params: sceneParams(8), paramsVersion: 1, recordingId: goneId, arraySnapshot: SCENE_ARRAY, maxAttempts: 1 },
       actor,
     );
     const [msg] = await waitFor('failure mail', async () => {
@@ -91,7 +98,7 @@ describe('mail: job outcomes and digest through the built-in SMTP receiver', fun
     });
     expect(msg.subject).to.match(/failed$/);
     expect(msg.envelopeTo).to.include.members([demoAccount('analyst').email, demoAccount('operations').email]);
-    expect(msg.textBody).to.include('no longer exists');
+    expect(msg.textBody).to.match(/vanished\.wav is missing or unreadable/);
   });
 
   it('mails the owner when a job is cancelled, once', async () => {

@@ -6,6 +6,7 @@
 import fs from 'node:fs';
 import path from 'node:path';
 import { expect } from 'chai';
+import { eq } from 'drizzle-orm';
 import type { RecordingDetail, RecordingListResponse } from '../../shared/api/recordings.js';
 import { lineArray } from '../../shared/arrays/array-geometry.js';
 import { computePlugin } from '../../server/nodes/compute-plugin.js';
@@ -93,6 +94,9 @@ describe('recordings', function () {
     expect(((await refused.json()) as { error: { message: string } }).error.message).to.match(/used by 1 job/);
     const detail = await analyst.getJson<RecordingDetail>(`/api/recordings/${used.id}`);
     expect(detail.jobs).to.have.length(1);
+    // Below the service, the database refuses too (foreign key, ON DELETE RESTRICT): no race between check and delete.
+    const direct = await server.ctx.db.delete(recordings).where(eq(recordings.id, used.id)).then(() => 'deleted', (e: Error) => String(e.cause ?? e));
+    expect(direct).to.match(/foreign key/);
     const dir = path.join(server.dataDir, 'recordings', String(free.id));
     expect(fs.existsSync(dir)).to.equal(true);
     expect((await analyst.delete(`/api/recordings/${free.id}`)).status).to.equal(204);

@@ -1,6 +1,9 @@
 import { sql } from 'drizzle-orm';
 import { boolean, check, doublePrecision, index, integer, jsonb, pgEnum, pgTable, serial, text, timestamp } from 'drizzle-orm/pg-core';
 import { JOB_KINDS, JOB_STATES } from '../../../shared/api/jobs.js';
+import { arrays } from './arrays.js';
+import { jobBatches } from './job-batches.js';
+import { recordings } from './recordings.js';
 import { timestamps } from './timestamps.js';
 import { users } from './users.js';
 
@@ -12,9 +15,11 @@ export const jobStateEnum = pgEnum('job_state', JOB_STATES);
 
 /**
  * One queued unit of work. The queue owns status, progress and history here (not in the compute
- * child), so any node or browser can see them. recording/array ids are plain integers: the
- * uploads tables are owned elsewhere; the array geometry used is frozen in `arraySnapshot`, so a
- * later edit of the array never changes what an old job meant.
+ * child), so any node or browser can see them. The recording, training recording, array and
+ * batch a job names are foreign keys that refuse deletion while the job exists (the services
+ * say so in words first; the keys close the race between their check and the delete). The array
+ * geometry used is frozen in `arraySnapshot`, so a later edit of the array never changes what an
+ * old job meant.
  */
 export const jobs = pgTable(
   'jobs',
@@ -28,9 +33,9 @@ export const jobs = pgTable(
     /** Validated job parameters (shared/params) and the version of their schema. */
     params: jsonb().notNull(),
     paramsVersion: integer().notNull(),
-    recordingId: integer(),
-    trainingRecordingId: integer(),
-    arrayId: integer(),
+    recordingId: integer().references(() => recordings.id, { onDelete: 'restrict' }),
+    trainingRecordingId: integer().references(() => recordings.id, { onDelete: 'restrict' }),
+    arrayId: integer().references(() => arrays.id, { onDelete: 'restrict' }),
     arraySnapshot: jsonb(),
     state: jobStateEnum().notNull().default('queued'),
     /** Higher runs first; FIFO by (created_at, id) within one priority. */
@@ -56,7 +61,7 @@ export const jobs = pgTable(
     partial: boolean().notNull().default(false),
     rerunOf: integer(),
     /** The batch submission this job belongs to (job_batches.id), null for a single submission. */
-    batchId: integer(),
+    batchId: integer().references(() => jobBatches.id, { onDelete: 'restrict' }),
     startedAt: timestamp({ withTimezone: true }),
     finishedAt: timestamp({ withTimezone: true }),
     ...timestamps,
