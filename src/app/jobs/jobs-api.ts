@@ -17,3 +17,6 @@ export const drainAnswerSchema = z.object({ node: z.object({ id: z.string(), dra
 /** The recordings and arrays routes answer with plain interfaces; they are owned and checked there. */
 export const recordingListSchema = z.custom<RecordingListResponse>((v) => typeof v === 'object' && v !== null && Array.isArray((v as { items?: unknown }).items));
 export const arrayListSchema = z.custom<{ arrays: ArrayRecord[] }>((v) => typeof v === 'object' && v !== null && Array.isArray((v as { arrays?: unknown }).arrays));
+/** GET /api/archives as the job form reads it (root choices for a folder batch). */
+export const archiveRootsSchema = z.object({ roots: z.array(z.object({ id: z.number().int(), name: z.string(), path: z.string(), recordingCount: z.number().int(), reachable: z.boolean() }).loose()) });
+export type ArchiveRootChoice = z.infer<typeof archiveRootsSchema>['roots'][number];

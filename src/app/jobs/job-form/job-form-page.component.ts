@@ -3,6 +3,8 @@ import { ChangeDetectionStrategy, Component, computed, inject, signal } from '@a
 import { toSignal } from '@angular/core/rxjs-interop';
 import { FormControl, FormGroup, ReactiveFormsModule } from '@angular/forms';
 import { MatButtonModule } from '@angular/material/button';
+import { MatButtonToggleModule } from '@angular/material/button-toggle';
+import { MatCheckboxModule } from '@angular/material/checkbox';
 import { MatFormFieldModule } from '@angular/material/form-field';
 import { MatIconModule } from '@angular/material/icon';
 import { MatInputModule } from '@angular/material/input';
@@ -19,8 +21,9 @@ import { ApiService } from '../../core/api.service';
 import { CALLER_HANDLES_ERRORS } from '../../core/http-context';
 import { PageHeaderComponent } from '../../ui/page-header.component';
 import { submitBatchResponseSchema } from '../../../../shared/api/job-batches.js';
-import { arrayListSchema, recordingListSchema, submitAnswerSchema } from '../jobs-api';
+import { archiveRootsSchema, arrayListSchema, recordingListSchema, submitAnswerSchema, type ArchiveRootChoice } from '../jobs-api';
 import { AdvisorPanelComponent } from './advisor-panel.component';
+import { batchSelection } from './batch-selection';
 import { adviseJob } from './job-advice';
 import * as z from 'zod';
 
@@ -30,7 +33,7 @@ const recordingDetailSchema = z.custom<RecordingDetail>((v) => typeof v === 'obj
 /** /jobs/new: the job form, checked by the server's own schema, with the advisor beside it. */
 @Component({
   selector: 'ns-job-form-page',
-  imports: [AdvisorPanelComponent, MatButtonModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, PageHeaderComponent, ReactiveFormsModule, RouterLink],
+  imports: [AdvisorPanelComponent, MatButtonModule, MatButtonToggleModule, MatCheckboxModule, MatFormFieldModule, MatIconModule, MatInputModule, MatSelectModule, PageHeaderComponent, ReactiveFormsModule, RouterLink],
   templateUrl: './job-form-page.component.html',
   styleUrl: './job-form-page.component.scss',
   changeDetection: ChangeDetectionStrategy.OnPush,
@@ -44,8 +47,14 @@ export class JobFormPageComponent {
   protected readonly form = new FormGroup({
     name: new FormControl('', { nonNullable: true }),
     recordingId: new FormControl<number | null>(null),
+    /** 'list': the recording plus any further ones (a batch when there are any); 'folder': an archive folder. */
+    runOn: new FormControl<'list' | 'folder'>('list', { nonNullable: true }),
     /** Further recordings: when any are chosen, the form submits a batch (one job per recording). */
     extraRecordingIds: new FormControl<number[]>([], { nonNullable: true }),
+    archiveRootId: new FormControl<number | null>(null),
+    archiveFolder: new FormControl('', { nonNullable: true }),
+    archivePattern: new FormControl('*.wav', { nonNullable: true }),
+    archiveRecursive: new FormControl(false, { nonNullable: true }),
     arrayId: new FormControl<number | null>(null),
     fLoHz: new FormControl(150, { nonNullable: true }),
     fHiHz: new FormControl(1400, { nonNullable: true }),
@@ -69,6 +78,7 @@ export class JobFormPageComponent {
 
   protected readonly recordings = signal<RecordingSummary[]>([]);
   protected readonly arrays = signal<ArrayRecord[]>([]);
+  protected readonly archiveRoots = signal<ArchiveRootChoice[]>([]);
   protected readonly recording = signal<RecordingDetail | null>(null);
   protected readonly submitting = signal(false);
   protected readonly serverProblems = signal<{ path: string; message: string }[]>([]);
@@ -88,6 +98,7 @@ export class JobFormPageComponent {
     if (!v.name?.trim()) list.push({ path: ['name'], message: 'Give the job a name.' });
     if (v.recordingId === null) list.push({ path: ['recordingId'], message: 'Pick a ready recording.' });
     if (v.arrayId === null) list.push({ path: ['arrayId'], message: 'Pick the array the recording was made with.' });
+    if (v.runOn === 'folder' && v.archiveRootId === null) list.push({ path: ['archive'], message: 'Pick the archive folder root to run on.' });
     const pr = submitJobSchema.shape.priority.safeParse(v.priority);
     if (!pr.success) list.push({ path: ['priority'], message: pr.error.issues[0].message });
     const r = this.paramsResult();
@@ -96,6 +107,11 @@ export class JobFormPageComponent {
     const a = this.array();
     if (info && a) list.push(...validateParamsAgainstRecording(r.params, info, a.geometry));
     return list;
+  });
+  /** The recordings part of the submission (null: one job), as the form's values stand. */
+  protected readonly selection = computed(() => {
+    const v = this.value();
+    return batchSelection({ mode: v.runOn ?? 'list', recordingId: v.recordingId ?? null, extraRecordingIds: v.extraRecordingIds ?? [], archiveRootId: v.archiveRootId ?? null, archiveFolder: v.archiveFolder ?? '', archivePattern: v.archivePattern ?? '', archiveRecursive: v.archiveRecursive ?? false });
   });
   protected readonly advice = computed(() => {
     const r = this.paramsResult();
@@ -146,11 +162,11 @@ export class JobFormPageComponent {
     };
     this.submitting.set(true);
     this.serverProblems.set([]);
-    const extras = v.extraRecordingIds.filter((id) => id !== v.recordingId);
+    const selection = this.selection();
     try {
-      if (extras.length) {
-        const { recordingId, ...shared } = body;
-        const batchBody = { ...shared, recordingIds: [recordingId, ...extras] };
+      if (selection) {
+        const { recordingId: _example, ...shared } = body;
+        const batchBody = { ...shared, ...selection };
         const answer = await firstValueFrom(this.api.post('/api/jobs/batch', batchBody, submitBatchResponseSchema, { context: new HttpContext().set(CALLER_HANDLES_ERRORS, true) }));
         this.snack.open(`Queued batch “${answer.batch.name}”: ${answer.jobs.length} jobs, ${answer.estimates.windows} windows in all.`, 'OK', { duration: 5000 });
         await this.router.navigate(['/jobs']);
@@ -201,12 +217,14 @@ export class JobFormPageComponent {
   }
 
   private async load(): Promise<void> {
-    const [recs, arrs] = await Promise.all([
+    const [recs, arrs, roots] = await Promise.all([
       firstValueFrom(this.api.get('/api/recordings', recordingListSchema, { params: { pageSize: 200, state: 'ready' } })),
       firstValueFrom(this.api.get('/api/arrays', arrayListSchema)),
+      firstValueFrom(this.api.get('/api/archives', archiveRootsSchema)),
     ]);
     this.recordings.set(recs.items);
     this.arrays.set(arrs.arrays);
+    this.archiveRoots.set(roots.roots);
     if (recs.items.length && this.form.controls.recordingId.value === null) this.form.controls.recordingId.setValue(recs.items[0].id);
   }
 
