@@ -37,6 +37,7 @@ describe('faults: the results disk fills up under a running job', function () {
   let mounted = false;
 
   after(async () => {
+    delete process.env['JOB_CHECKPOINT_SECONDS'];
     await f?.close().catch(() => undefined);
     if (mounted) execFileSync('umount', ['-l', mountDir!]);
     if (mountDir) fs.rmSync(mountDir, { recursive: true, force: true });
@@ -49,17 +50,20 @@ describe('faults: the results disk fills up under a running job', function () {
       console.log('      (mount -t tmpfs not permitted here: run the fault suite as root to include this check)');
       this.skip();
     }
+    // checkpoints every 0.1 s, so windows are surely stored before the small disk fills
+    process.env['JOB_CHECKPOINT_SECONDS'] = '0.1';
     f = await startFaultNode({ resultsDir: mountDir });
     const short = await insertReadyRecording(f.h, await writeSceneWav(f.dir, 4, 'short.wav'), f.owner);
-    const long = await insertReadyRecording(f.h, await writeSceneWav(f.dir, 12, 'long.wav'), f.owner);
+    // long enough that several progress ticks (and stored checkpoints) pass before the disk fills
+    const long = await insertReadyRecording(f.h, await writeSceneWav(f.dir, 60, 'long.wav'), f.owner);
 
     const first = await f.submit('fits', short);
     expect(await f.waitFor(first.id, ['succeeded', 'failed'])).to.equal('succeeded');
     const firstDir = jobResultsDir(mountDir, first.id);
     const before = treeDigest(firstDir);
     const used = (fs.readdirSync(firstDir) as string[]).reduce((s, n) => s + fs.statSync(path.join(firstDir, n)).size, 0);
-    // the 12 s job writes about 3× the 4 s one: leave room for about a third of it
-    const room = Math.ceil((used * 2.1) / 4096) * 4096 + 8192;
+    // the 60 s job writes about 15× the 4 s one: leave room for about a third of it
+    const room = Math.ceil((used * 6) / 4096) * 4096 + 8192;
     execFileSync('mount', ['-o', `remount,size=${room}`, mountDir]);
 
     const second = await f.submit('fills the disk', long, { maxAttempts: 2 });
@@ -79,7 +83,7 @@ describe('faults: the results disk fills up under a running job', function () {
     expect(records).to.be.at.least(failed.checkpointWindow * perWindow);
 
     // with space again, a rerun on the same node succeeds (the node and database are fine)
-    execFileSync('mount', ['-o', 'remount,size=64m', mountDir]);
+    execFileSync('mount', ['-o', 'remount,size=256m', mountDir]); // the 60 s job's results are about 100 MB
     const third = await f.submit('after space was freed', long);
     expect(await f.waitFor(third.id, ['succeeded', 'failed'])).to.equal('succeeded');
   });
@@ -95,7 +99,8 @@ describe('faults: the recording changes under a running job', function () {
 
   it('a recording truncated mid-job fails the job clearly (no retry can succeed), keeping the windows done', async () => {
     const file = path.join(f.dir, 'to-truncate.wav');
-    fs.copyFileSync(await writeSceneWav(f.dir, 20), file);
+    // 60 s: the cut at half the file lands well ahead of the windows already read
+    fs.copyFileSync(await writeSceneWav(f.dir, 60, 'long-scene.wav'), file);
     const rid = await insertReadyRecording(f.h, file, f.owner);
     const job = await f.submit('truncated under it', rid, { maxAttempts: 3 });
     const j = await waitUntil(f.h, job.id, (x) => x.state === 'running' && x.windowsDone >= 100 && x.checkpointWindow > 0);
@@ -111,7 +116,7 @@ describe('faults: the recording changes under a running job', function () {
 
   it('a recording deleted mid-job: the next attempt (after a crash) fails at once saying the file is missing, windows kept', async () => {
     const file = path.join(f.dir, 'to-delete.wav');
-    fs.copyFileSync(await writeSceneWav(f.dir, 20), file);
+    fs.copyFileSync(await writeSceneWav(f.dir, 60, 'long-scene.wav'), file);
     const rid = await insertReadyRecording(f.h, file, f.owner);
     const job = await f.submit('deleted under it', rid, { maxAttempts: 3 });
     await waitUntil(f.h, job.id, (x) => x.state === 'running' && x.checkpointWindow > 0 && f.pool.busyPids().length > 0);

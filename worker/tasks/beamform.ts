@@ -67,6 +67,15 @@ async function open(loc: RecordingLocation, array: ArrayGeometry): Promise<Opene
 }
 
 /**
+ * JOB_CHECKPOINT_SECONDS from the environment this child inherited from its node (validated
+ * there at start, server/nodes/node-timing.ts); 1 s when unset.
+ */
+function checkpointIntervalMs(): number {
+  const s = Number(process.env['JOB_CHECKPOINT_SECONDS']);
+  return Number.isFinite(s) && s >= 0.05 ? s * 1000 : 1000;
+}
+
+/**
  * One beamform job attempt in a compute child: opens the recording(s) with the frozen array's
  * channel map, runs the job runner from the checkpoint, reports windows done and each fsynced
  * checkpoint (the node commits only those), and stops between windows when cancelled.
@@ -95,6 +104,7 @@ export const beamformTask: ComputeTask<BeamformTaskPayload, BeamformTaskResult> 
         array: payload.array,
         outDir: payload.outDir,
         resumeFromWindow: payload.resumeFromWindow,
+        checkpointIntervalMs: checkpointIntervalMs(),
         signal,
         meta: { jobId: payload.jobId, ...payload.meta },
         onWindowDone: (j, totalWindows, summary) => {
