@@ -74,7 +74,7 @@ function buildKit(ctx: AppContext): AuthKit {
     proxy: config.trustProxy !== false ? true : undefined,
     cookie: { httpOnly: true, sameSite: 'lax', secure: config.cookieSecure, maxAge: config.sessionMaxAgeMs, path: '/' },
   });
-  return { passport, session: sessionMiddleware, store, throttle: new LoginThrottle() };
+  return { passport, session: sessionMiddleware, store, throttle: new LoginThrottle(db) };
 }
 
 /**

@@ -1,10 +1,14 @@
+import { and, eq, inArray, isNull, lt, or, sql } from 'drizzle-orm';
+import type { AppDb } from '../db/client.js';
+import { loginFailures } from '../db/schema/login-failures.js';
+
 /**
  * Counts failed sign-ins per client address and per account and locks either out for a while
  * once it has too many. Failures only: a person who signs in correctly is never slowed down.
  * Written here rather than taken from express-rate-limit because we need the per-account
  * lockout keyed on the parsed e-mail and a reset on success, which that package's per-request
- * counting does not give. In memory, per process: each node of a multi-node deployment keeps
- * its own counts (an attacker spreading over N nodes gets N times the budget).
+ * counting does not give. The counts live in the database (login_failures), so every server of
+ * a deployment shares them and a restart does not hand an attacker a fresh budget.
  */
 export interface ThrottleRule {
   maxFailures: number;
@@ -22,58 +26,75 @@ export const DEFAULT_THROTTLE: ThrottleRules = {
   perAddress: { maxFailures: 30, windowMs: 15 * 60_000, lockoutMs: 15 * 60_000 },
 };
 
-interface Counter {
-  failures: number;
-  windowStart: number;
-  lockedUntil: number;
-}
+/** Every this many failures, rows whose window and lockout are both over are deleted. */
+const PRUNE_EVERY = 200;
 
-const MAX_TRACKED = 50_000;
+const accountKey = (account: string) => `account:${account}`;
+const addressKey = (address: string) => `address:${address}`;
+const at = (ms: number) => sql`${new Date(ms).toISOString()}::timestamptz`;
 
 export class LoginThrottle {
-  private readonly accounts = new Map<string, Counter>();
-  private readonly addresses = new Map<string, Counter>();
+  private failuresSincePrune = 0;
 
   constructor(
+    private readonly db: AppDb,
     private readonly rules: ThrottleRules = DEFAULT_THROTTLE,
     private readonly now: () => number = Date.now,
   ) {}
 
   /** Seconds until the caller may try again, or 0 when it may try now. */
-  retryAfterS(address: string, account: string): number {
+  async retryAfterS(address: string, account: string): Promise<number> {
+    const rows = await this.db
+      .select({ lockedUntil: loginFailures.lockedUntil })
+      .from(loginFailures)
+      .where(inArray(loginFailures.key, [accountKey(account), addressKey(address)]));
+    const until = Math.max(0, ...rows.map((r) => r.lockedUntil?.getTime() ?? 0));
     const t = this.now();
-    const until = Math.max(this.accounts.get(account)?.lockedUntil ?? 0, this.addresses.get(address)?.lockedUntil ?? 0);
     return until > t ? Math.ceil((until - t) / 1000) : 0;
   }
 
-  recordFailure(address: string, account: string): void {
-    this.bump(this.accounts, account, this.rules.perAccount);
-    this.bump(this.addresses, address, this.rules.perAddress);
+  async recordFailure(address: string, account: string): Promise<void> {
+    await this.bump(accountKey(account), this.rules.perAccount);
+    await this.bump(addressKey(address), this.rules.perAddress);
+    if (++this.failuresSincePrune >= PRUNE_EVERY) {
+      this.failuresSincePrune = 0;
+      await this.prune();
+    }
   }
 
   /** A correct password clears that account's count (the address count stays: it may be guessing many accounts). */
-  recordSuccess(account: string): void {
-    this.accounts.delete(account);
+  async recordSuccess(account: string): Promise<void> {
+    await this.db.delete(loginFailures).where(eq(loginFailures.key, accountKey(account)));
   }
 
-  private bump(map: Map<string, Counter>, key: string, rule: ThrottleRule): void {
+  /** One more failure for `key`: a new window once the old one is over; at the limit, a lockout and a fresh count. */
+  private async bump(key: string, rule: ThrottleRule): Promise<void> {
     const t = this.now();
-    let c = map.get(key);
-    if (!c || t - c.windowStart > rule.windowMs) {
-      if (map.size >= MAX_TRACKED) this.forgetStale(map, rule, t);
-      c = { failures: 0, windowStart: t, lockedUntil: 0 };
-      map.set(key, c);
-    }
-    c.failures += 1;
-    if (c.failures >= rule.maxFailures) {
-      c.lockedUntil = t + rule.lockoutMs;
-      c.failures = 0;
-      c.windowStart = t;
+    const windowOver = sql`${loginFailures.windowStart} < ${at(t - rule.windowMs)}`;
+    const [row] = await this.db
+      .insert(loginFailures)
+      .values({ key, failures: 1, windowStart: new Date(t), lockedUntil: null })
+      .onConflictDoUpdate({
+        target: loginFailures.key,
+        set: {
+          failures: sql`case when ${windowOver} then 1 else ${loginFailures.failures} + 1 end`,
+          windowStart: sql`case when ${windowOver} then ${at(t)} else ${loginFailures.windowStart} end`,
+        },
+      })
+      .returning({ failures: loginFailures.failures });
+    if (row.failures >= rule.maxFailures) {
+      await this.db
+        .update(loginFailures)
+        .set({ failures: 0, windowStart: new Date(t), lockedUntil: new Date(t + rule.lockoutMs) })
+        .where(eq(loginFailures.key, key));
     }
   }
 
-  private forgetStale(map: Map<string, Counter>, rule: ThrottleRule, t: number): void {
-    for (const [k, c] of map) if (c.lockedUntil < t && t - c.windowStart > rule.windowMs) map.delete(k);
-    if (map.size >= MAX_TRACKED) map.clear(); // under a flood, forgetting beats running out of memory
+  private async prune(): Promise<void> {
+    const t = this.now();
+    const longest = Math.max(this.rules.perAccount.windowMs, this.rules.perAddress.windowMs);
+    await this.db
+      .delete(loginFailures)
+      .where(and(lt(loginFailures.windowStart, new Date(t - longest)), or(isNull(loginFailures.lockedUntil), lt(loginFailures.lockedUntil, new Date(t)))));
   }
 }

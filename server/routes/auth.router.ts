@@ -15,7 +15,7 @@ export function authRouter(ctx: AppContext): Router {
     const body = loginRequestSchema.parse(req.body ?? {});
     const account = normalizeEmail(body.email);
     const address = req.ip ?? 'unknown';
-    const wait = throttle.retryAfterS(address, account);
+    const wait = await throttle.retryAfterS(address, account);
     if (wait > 0) throw tooManyAttempts(res, wait);
 
     const { user, refusal } = await authenticate(passport, req, res, next);
@@ -23,11 +23,11 @@ export function authRouter(ctx: AppContext): Router {
       if (refusal?.message === 'disabled') {
         throw new HttpError(403, 'account_disabled', 'This account is disabled. Ask an administrator to enable it.');
       }
-      throttle.recordFailure(address, account);
+      await throttle.recordFailure(address, account);
       ctx.logger.info('sign-in refused', { account, address });
       throw new HttpError(401, 'invalid_credentials', 'E-mail or password is wrong.');
     }
-    throttle.recordSuccess(account);
+    await throttle.recordSuccess(account);
     // passport >= 0.6 regenerates the session here: a session id planted before sign-in is discarded.
     await new Promise<void>((resolve, reject) => req.logIn(user, (err: unknown) => (err ? reject(err) : resolve())));
     ctx.logger.info('signed in', { userId: user.id });

@@ -19,3 +19,4 @@ export * from './user-preferences.js';
 export * from './retention.js';
 export * from './live-changes.js';
 export * from './job-batches.js';
+export * from './login-failures.js';
