@@ -272,9 +272,19 @@ describe('live dashboard in the browser', function () {
     await page.getByLabel('Start after (your time)').fill('2099-01-01T00:00');
     await b.screenshot('job-form-folder-batch');
     await page.getByTestId('submit-job').click();
-    await page.getByText(/Queued batch “Leg B dips”: 2 jobs/).waitFor();
-    const listed = await api<{ items: { name: string; batchId: number | null; state: string }[] }>(page, 'GET', `${server.url}/api/jobs?limit=100`);
-    const mine = listed.items.filter((j) => j.name.startsWith('Leg B dips'));
+    // The jobs appear in the API once the form's request went through; a refusal stays on the
+    // form with the server's reasons, which the failure then shows.
+    type Listed = { name: string; batchId: number | null; state: string };
+    const mine = await until('the folder batch to be queued', async () => {
+      const listed = await api<{ items: Listed[] }>(page, 'GET', `${server.url}/api/jobs?limit=100`);
+      const found = listed.items.filter((j) => j.name.startsWith('Leg B dips'));
+      return found.length >= 2 ? found : undefined;
+    }, 60_000).catch(async (e: Error) => {
+      const why = await page.getByTestId('server-problems').innerText({ timeout: 1000 }).catch(() => '(no refusal shown on the form)');
+      await b.screenshot('job-form-folder-batch-not-queued');
+      throw new Error(`${e.message}: ${why}`);
+    });
+    await page.waitForURL((u) => u.pathname === '/jobs');
     expect(mine.map((j) => j.name).sort()).to.deep.equal(['Leg B dips · dip-01.wav', 'Leg B dips · dip-02.wav']);
     expect(new Set(mine.map((j) => j.batchId)).size).to.equal(1);
     expect(mine.every((j) => j.state === 'scheduled')).to.equal(true);
