@@ -52,6 +52,15 @@ async function choose(page: Page, label: string | RegExp, option: string | RegEx
   await page.getByRole('option', { name: option }).first().click();
 }
 
+/**
+ * Opens the job form and waits until it has suggested a job name from its first recording, so a
+ * name typed afterwards is not raced by that suggestion.
+ */
+async function openJobForm(page: Page, base: string): Promise<void> {
+  await page.goto(`${base}/jobs/new`);
+  await until('the suggested job name', async () => ((await page.getByTestId('job-name').inputValue()) ? true : undefined), 30_000);
+}
+
 describe('live dashboard in the browser', function () {
   this.timeout(600_000);
   let server: ServerProcess;
@@ -96,7 +105,7 @@ describe('live dashboard in the browser', function () {
     });
 
     // The job form, checked as we type, with the advisor.
-    await page.goto(`${server.url}/jobs/new`);
+    await openJobForm(page, server.url);
     await choose(page, 'Recording', /ledge-check-upload\.wav/);
     await choose(page, 'Array', /Gannet Ledge/);
     await page.getByTestId('job-name').fill('Ledge check: live watch');
@@ -261,7 +270,7 @@ describe('live dashboard in the browser', function () {
       return r.items.filter((i) => i.state === 'ready').length === 2 ? true : undefined;
     }, 120_000);
 
-    await page.goto(`${server.url}/jobs/new`);
+    await openJobForm(page, server.url);
     await page.getByTestId('job-name').fill('Leg B dips');
     await page.getByTestId('job-run-on').getByText('An archive folder').click();
     await choose(page, 'Archive root', /Survey disk/);

@@ -234,6 +234,8 @@ export class JobFormPageComponent {
     const detail = await firstValueFrom(this.api.get(`/api/recordings/${id}`, recordingDetailSchema));
     this.recording.set(detail);
     if (detail.arrayId !== null) this.form.controls.arrayId.setValue(detail.arrayId);
-    if (!this.form.controls.name.value) this.form.controls.name.setValue(`${detail.name.replace(/\.[^.]+$/, '')} bearing sweep`);
+    // A suggested name only while the person has not typed one (the detail may arrive mid-typing).
+    const name = this.form.controls.name;
+    if (name.pristine && !name.value) name.setValue(`${detail.name.replace(/\.[^.]+$/, '')} bearing sweep`);
   }
 }
