@@ -7,7 +7,6 @@
  * succeeded, progress and window summaries; after a hard drop mid-job and a REST resync it must
  * end with the database's final state and every window exactly once.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -20,10 +19,10 @@ import { demoJobParams } from '../../server/demo/demo-job-params.js';
 import { LIVE_NOTIFY_CHANNEL } from '../../server/live/change-feed.js';
 import { jobEvents } from '../../server/db/schema/job-events.js';
 import { recordings } from '../../server/db/schema/recordings.js';
+import { startHeadlessNode, type HeadlessNode } from './helpers/headless-node.js';
 import { createTestDatabaseUrl } from './helpers/queue-databases.js';
 import { startTestServer, type TestClient, type TestServer } from './helpers/test-server.js';
 
-const REPO = path.resolve(path.dirname(new URL(import.meta.url).pathname), '../..');
 const wsUrl = (server: TestServer) => server.url.replace(/^http/, 'ws') + LIVE_PATH;
 const cookieOf = (c: TestClient) => [...c.cookies].map(([k, v]) => `${k}=${v}`).join('; ');
 
@@ -64,37 +63,18 @@ if (!process.env.TEST_DATABASE_URL) {
     let dir: string;
     let drop: (() => Promise<void>) | undefined;
     let server: TestServer | undefined;
-    let headless: { proc: ChildProcess; id: string; output: () => string } | undefined;
+    let headless: HeadlessNode | undefined;
 
-    function startHeadless(url: string): Promise<{ proc: ChildProcess; id: string; output: () => string }> {
-      const proc = spawn(process.execPath, ['--import', 'tsx', 'worker/node-main.ts'], {
-        cwd: REPO,
-        env: {
-          PATH: process.env.PATH ?? '',
-          HOME: process.env.HOME ?? '',
-          DATABASE_URL: url,
-          DATA_DIR: path.join(dir, 'headless'),
-          RESULTS_DIR: path.join(dir, 'results'),
-          WORKER_CONCURRENCY: '1',
-          JOB_POLL_SECONDS: '0.3',
-        },
-        stdio: ['ignore', 'pipe', 'pipe'],
+    const startHeadless = (url: string): Promise<HeadlessNode> =>
+      startHeadlessNode({
+        PATH: process.env.PATH ?? '',
+        HOME: process.env.HOME ?? '',
+        DATABASE_URL: url,
+        DATA_DIR: path.join(dir, 'headless'),
+        RESULTS_DIR: path.join(dir, 'results'),
+        WORKER_CONCURRENCY: '1',
+        JOB_POLL_SECONDS: '0.3',
       });
-      let out = '';
-      proc.stdout!.on('data', (d: Buffer) => (out += d.toString()));
-      proc.stderr!.on('data', (d: Buffer) => (out += d.toString()));
-      return new Promise((resolve, reject) => {
-        const t = setTimeout(() => reject(new Error(`the headless node did not start within 60 s:\n${out}`)), 60_000);
-        proc.stdout!.on('data', () => {
-          const m = /Nullsmith worker (\S+) ready/.exec(out);
-          if (m) {
-            clearTimeout(t);
-            resolve({ proc, id: m[1], output: () => out });
-          }
-        });
-        proc.once('exit', (code) => reject(new Error(`the headless node exited (${code}) before it was ready:\n${out}`)));
-      });
-    }
 
     before(async () => {
       dir = fs.mkdtempSync(path.join(os.tmpdir(), 'nullsmith-livepg-'));

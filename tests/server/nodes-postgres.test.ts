@@ -4,7 +4,6 @@
  * each done exactly once; a node SIGKILLed mid-job loses its lease and the other node finishes
  * that job from its checkpoint.
  */
-import { spawn, type ChildProcess } from 'node:child_process';
 import fs from 'node:fs';
 import os from 'node:os';
 import path from 'node:path';
@@ -18,16 +17,11 @@ import { enqueueJob } from '../../server/queue/enqueue-job.js';
 import { getJob } from '../../server/queue/get-job.js';
 import { createQueueEvents, type JobProgressEvent } from '../../server/nodes/queue-events.js';
 import { RemoteJobWatcher } from '../../server/nodes/remote-job-watcher.js';
+import { startHeadlessNode, type HeadlessNode } from './helpers/headless-node.js';
 import { createTestDatabaseUrl, insertTestUser } from './helpers/queue-databases.js';
 import { insertReadyRecording, SCENE_ARRAY, sceneParams, writeSceneWav } from './helpers/queue-scene.js';
 
-const REPO = path.resolve(path.dirname(new URL(import.meta.url).pathname), '../..');
 
-interface HeadlessNode {
-  proc: ChildProcess;
-  id: string;
-  output: () => string;
-}
 
 const suite = process.env.TEST_DATABASE_URL ? describe : describe.skip;
 
@@ -39,10 +33,9 @@ suite('scale-out: two headless nodes on PostgreSQL', function () {
   let h: DatabaseHandle;
   const nodes: HeadlessNode[] = [];
 
-  function startNode(name: string): Promise<HeadlessNode> {
-    const proc = spawn(process.execPath, ['--import', 'tsx', 'worker/node-main.ts'], {
-      cwd: REPO,
-      env: {
+  const startNode = (name: string): Promise<HeadlessNode> =>
+    startHeadlessNode(
+      {
         ...process.env,
         DATABASE_URL: url,
         DATA_DIR: path.join(dir, name),
@@ -53,25 +46,9 @@ suite('scale-out: two headless nodes on PostgreSQL', function () {
         JOB_RETRY_BASE_SECONDS: '0.5',
         JOB_RETRY_CAP_SECONDS: '2',
       },
-      stdio: ['ignore', 'pipe', 'pipe'],
-    });
-    let out = '';
-    proc.stdout!.on('data', (d: Buffer) => (out += d.toString()));
-    proc.stderr!.on('data', (d: Buffer) => (out += d.toString()));
-    return new Promise((resolve, reject) => {
-      const t = setTimeout(() => reject(new Error(`node ${name} did not start:\n${out}`)), 120_000);
-      const check = () => {
-        const m = /Nullsmith worker (\S+) ready/.exec(out);
-        if (m) {
-          clearTimeout(t);
-          proc.stdout!.off('data', check);
-          resolve({ proc, id: m[1], output: () => out });
-        }
-      };
-      proc.stdout!.on('data', check);
-      proc.on('exit', (code) => reject(new Error(`node ${name} exited (${code}) before it was ready:\n${out}`)));
-    });
-  }
+      name,
+      120_000,
+    );
 
   before(async () => {
     dir = fs.mkdtempSync(path.join(os.tmpdir(), 'nullsmith-scale-'));
