@@ -7,6 +7,7 @@
  * (bin b at offset 2·N²·b). Alongside each matrix the estimators keep Σ‖x‖⁴/K (the fourth
  * moment the Ledoit–Wolf shrinkage needs).
  */
+import { SimdGram } from './wasm/simd-gram.js';
 import type { SnapshotBlock } from './window-engine.types.js';
 
 /**
@@ -29,6 +30,58 @@ let planeIm = new Float64Array(0);
  * (R read and written for every snapshot) against 90–120 µs for this form.
  */
 export function accumulateOuterProducts(r: Float64Array, rOff: number, block: Float64Array, snapOff: number, count: number, n: number, scale: number): number {
+  const simd = SimdGram.forShape(n, count);
+  return simd ? accumulateWithSimd(simd, r, rOff, block, snapOff, count, n, scale) : accumulateOuterProductsJs(r, rOff, block, snapOff, count, n, scale);
+}
+
+/**
+ * accumulateOuterProducts on the SIMD Gram kernel (wasm/assembly/gram.ts): same planes, same
+ * 2×2 tiles, two snapshots per f64x2 lane pair. bench/dsp-engine.ts, N = 32, K = 64, window hop
+ * 32, CPU per window-bin: see the figures in its header.
+ */
+function accumulateWithSimd(simd: SimdGram, r: Float64Array, rOff: number, block: Float64Array, snapOff: number, count: number, n: number, scale: number): number {
+  const pr = simd.planeRe;
+  const pi = simd.planeIm;
+  const stride = simd.count;
+  let fourth = 0;
+  for (let k = 0; k < count; k++) {
+    const x = snapOff + 2 * n * k;
+    let norm2 = 0;
+    for (let i = 0; i < n; i++) {
+      const re = block[x + 2 * i];
+      const im = block[x + 2 * i + 1];
+      pr[i * stride + k] = re;
+      pi[i * stride + k] = im;
+      norm2 += re * re + im * im;
+    }
+    fourth += norm2 * norm2;
+  }
+  if (stride > count) {
+    for (let i = 0; i < n; i++) {
+      pr[i * stride + count] = 0;
+      pi[i * stride + count] = 0;
+    }
+  }
+  if (simd.channels > n) {
+    pr.fill(0, n * stride, (n + 1) * stride);
+    pi.fill(0, n * stride, (n + 1) * stride);
+  }
+  simd.run();
+  const out = simd.out;
+  const outRow = 2 * simd.channels;
+  for (let i = 0; i < n; i++) {
+    const rRow = rOff + 2 * i * n;
+    const oRow = i * outRow;
+    for (let j = i; j < n; j++) {
+      r[rRow + 2 * j] += out[oRow + 2 * j] * scale;
+      r[rRow + 2 * j + 1] += out[oRow + 2 * j + 1] * scale;
+    }
+  }
+  return fourth * scale;
+}
+
+/** The JavaScript kernel: the reference the SIMD one is tested against, and the fallback. */
+export function accumulateOuterProductsJs(r: Float64Array, rOff: number, block: Float64Array, snapOff: number, count: number, n: number, scale: number): number {
   if (planeRe.length < n * count) {
     planeRe = new Float64Array(n * count);
     planeIm = new Float64Array(n * count);

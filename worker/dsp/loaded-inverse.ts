@@ -23,7 +23,14 @@
  *
  * Storage: flat interleaved (re, im) row-major N×N, as hermitian-cholesky.ts. No allocation
  * after construction.
+ *
+ * For even N the three products run on the SIMD kernels (wasm/assembly/loaded-inverse.ts, same
+ * loops and tiles) and the matrices below are views of that kernel instance's memory; the
+ * JavaScript methods stay as the reference (tests/dsp/simd-kernels.test.ts) and the fallback.
+ * bench/dsp-engine.ts, N = 32, CPU per window-bin: Q and Q² 65 µs (JavaScript) → see its header.
  */
+import { instantiateKernels, kernelView, type KernelExports } from './wasm/simd-kernels.js';
+
 export class LoadedInverse {
   readonly n: number;
   /** Xᵀ for X = L⁻¹: row j holds column j of X (entries i ≥ j; zeros before the diagonal). */
@@ -33,15 +40,39 @@ export class LoadedInverse {
   /** Q² = R_L⁻², upper triangle (strict lower never written). */
   readonly q2: Float64Array;
 
-  constructor(n: number) {
+  private readonly kernels: KernelExports | null;
+  /** The factor's copy in the kernel instance's memory (SIMD path only). */
+  private readonly factor: Float64Array;
+
+  constructor(n: number, useSimd = true) {
     this.n = n;
-    this.lowerInverseT = new Float64Array(2 * n * n);
-    this.q = new Float64Array(2 * n * n);
-    this.q2 = new Float64Array(2 * n * n);
+    const m = 2 * n * n;
+    const kernels = useSimd && n % 2 === 0 ? instantiateKernels(4 * 8 * m) : null;
+    this.kernels = kernels;
+    if (kernels) {
+      this.factor = kernelView(kernels, 0, m);
+      this.lowerInverseT = kernelView(kernels, 8 * m, m);
+      this.q = kernelView(kernels, 16 * m, m);
+      this.q2 = kernelView(kernels, 24 * m, m);
+    } else {
+      this.factor = new Float64Array(0);
+      this.lowerInverseT = new Float64Array(m);
+      this.q = new Float64Array(m);
+      this.q2 = new Float64Array(m);
+    }
   }
 
   /** Forms L⁻¹, Q and Q² from the factor L (lower triangle of `l`, as choleskyFactor writes it). */
   fromFactor(l: Float64Array): void {
+    const kernels = this.kernels;
+    if (kernels) {
+      const m = 2 * this.n * this.n;
+      this.factor.set(l.length === m ? l : l.subarray(0, m));
+      kernels.invertLower(0, 8 * m, this.n);
+      kernels.gramOfInverse(8 * m, 16 * m, this.n);
+      kernels.squareOfHermitian(16 * m, 24 * m, this.n);
+      return;
+    }
     this.invertLower(l);
     this.gramOfInverse();
     this.squareOfQ();
