@@ -3,6 +3,7 @@ import fs from 'node:fs';
 import { create, all, type Complex, type Matrix } from 'mathjs';
 import { accumulateOuterProducts, accumulateOuterProductsJs } from '../../worker/dsp/covariance.js';
 import { choleskyFactor } from '../../worker/dsp/hermitian-cholesky.js';
+import { HermitianEigenvalues } from '../../worker/dsp/hermitian-eigen.js';
 import { LoadedInverse } from '../../worker/dsp/loaded-inverse.js';
 import { kernelKind } from '../../worker/dsp/wasm/simd-kernels.js';
 import { KERNELS_SOURCE_DIR, KERNELS_SOURCES_HASH_PATH, KERNELS_WASM_PATH } from '../../scripts/compile-kernels.js';
@@ -93,6 +94,28 @@ describe('dsp/SIMD kernels: WebAssembly against the JavaScript reference', () =>
       // Q²: only the upper triangle is defined.
       const upper = (m: Float64Array) => m.map((v, idx) => (Math.floor(idx / 2) % n >= Math.floor(idx / 2 / n) ? v : 0));
       expect(maxRelativeDifference(upper(simd.q2), upper(js.q2))).to.be.below(1e-12);
+    });
+  }
+
+  for (const [n, k] of [[32, 64], [32, 16], [9, 30], [3, 2], [2, 5], [1, 3]] as const) {
+    it(`eigenvalues by the SIMD Householder reduction (N = ${n}, K = ${k}) match the JavaScript one`, () => {
+      const rng = new SeededRandom(1000 + n * k);
+      const block = new Float64Array(k * n * 2);
+      rng.complexNormal(block);
+      const r = new Float64Array(2 * n * n);
+      accumulateOuterProductsJs(r, 0, block, 0, k, n, 1 / k);
+      for (let i = 0; i < n; i++) {
+        for (let j = 0; j < i; j++) {
+          r[2 * (i * n + j)] = r[2 * (j * n + i)];
+          r[2 * (i * n + j) + 1] = -r[2 * (j * n + i) + 1];
+        }
+      }
+      const viaSimd = new Float64Array(n);
+      const viaJs = new Float64Array(n);
+      expect(new HermitianEigenvalues(n).run(viaSimd, 0, r)).to.equal(true);
+      expect(new HermitianEigenvalues(n, false).run(viaJs, 0, r)).to.equal(true);
+      // Rank-deficient cases (K < N) have zero eigenvalues: compare against the largest.
+      expect(maxRelativeDifference(viaSimd, viaJs)).to.be.below(1e-12);
     });
   }
 });

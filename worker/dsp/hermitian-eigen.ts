@@ -5,7 +5,13 @@
  * on that real tridiagonal (tqlrat below). About (4/3)·N³ complex operations.
  * Own code: ml-matrix and mathjs have no complex Hermitian eigensolver that works in place.
  * Storage: flat interleaved (re, im) row-major, as hermitian-cholesky.ts.
+ *
+ * The Householder reduction runs on the SIMD kernel (wasm/assembly/householder.ts, the same
+ * steps) when the kernels are built; the method below stays as the reference
+ * (tests/dsp/simd-kernels.test.ts) and the fallback. The work arrays are then views of that
+ * kernel instance's memory.
  */
+import { instantiateKernels, kernelView, type KernelExports } from './wasm/simd-kernels.js';
 
 export class HermitianEigenvalues {
   readonly n: number;
@@ -14,15 +20,27 @@ export class HermitianEigenvalues {
   private readonly p: Float64Array; // τ·A·v
   private readonly d: Float64Array; // tridiagonal diagonal
   private readonly e: Float64Array; // squared moduli of the tridiagonal off-diagonal
+  private readonly kernels: KernelExports | null;
 
-  constructor(n: number) {
+  constructor(n: number, useSimd = true) {
     if (!Number.isInteger(n) || n < 1) throw new RangeError(`matrix order must be a positive integer, got ${n}`);
     this.n = n;
-    this.work = new Float64Array(2 * n * n);
-    this.v = new Float64Array(2 * n);
-    this.p = new Float64Array(2 * n);
-    this.d = new Float64Array(n);
-    this.e = new Float64Array(n);
+    const m = 2 * n * n;
+    const kernels = useSimd ? instantiateKernels(8 * (m + 6 * n)) : null;
+    this.kernels = kernels;
+    if (kernels) {
+      this.work = kernelView(kernels, 0, m);
+      this.v = kernelView(kernels, 8 * m, 2 * n);
+      this.p = kernelView(kernels, 8 * (m + 2 * n), 2 * n);
+      this.d = kernelView(kernels, 8 * (m + 4 * n), n);
+      this.e = kernelView(kernels, 8 * (m + 5 * n), n);
+    } else {
+      this.work = new Float64Array(m);
+      this.v = new Float64Array(2 * n);
+      this.p = new Float64Array(2 * n);
+      this.d = new Float64Array(n);
+      this.e = new Float64Array(n);
+    }
   }
 
   /**
@@ -41,7 +59,13 @@ export class HermitianEigenvalues {
         w[row + 2 * j + 1] = a[aOff + row + 2 * j + 1];
       }
     }
-    this.tridiagonalize();
+    const kernels = this.kernels;
+    if (kernels) {
+      const m = 2 * n * n;
+      kernels.tridiagonalize(0, 8 * m, 8 * (m + 2 * n), 8 * (m + 4 * n), 8 * (m + 5 * n), n);
+    } else {
+      this.tridiagonalize();
+    }
     const ok = tqlrat(this.d, this.e, n);
     if (!ok) {
       for (let i = 0; i < n; i++) out[outOff + i] = NaN;

@@ -16,6 +16,7 @@ export interface KernelExports {
   invertLower(l: number, t: number, n: number): void;
   gramOfInverse(t: number, q: number, n: number): void;
   squareOfHermitian(q: number, q2: number, n: number): void;
+  tridiagonalize(a: number, v: number, p: number, d: number, e: number, n: number): void;
 }
 
 export type KernelKind = 'wasm-simd' | 'javascript';

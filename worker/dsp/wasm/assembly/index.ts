@@ -11,3 +11,4 @@
 
 export { gramUpper } from './gram';
 export { invertLower, gramOfInverse, squareOfHermitian } from './loaded-inverse';
+export { tridiagonalize } from './householder';
