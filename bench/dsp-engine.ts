@@ -43,6 +43,16 @@
  * of wall time at similar load; the solve share did not move measurably in the job run despite
  * the eigenvalue gain here (load noise). Left: covariance ≈ 115, Q and Q² ≈ 125, eigenvalues'
  * Householder part ≈ 55–65 µs.
+ * Fourth round, 2026-12-03 (quiet machine, load ≈ 1; this host runs the JavaScript engine at
+ * 32× real time for the whole job): WebAssembly SIMD kernels (worker/dsp/wasm/assembly/,
+ * AssemblyScript, f64x2), the JavaScript kernels kept as reference and fallback
+ * (NULLSMITH_KERNELS=js), CPU µs per window-bin:
+ *   covariance, window hop 32      57 → 31 (group Gram on f64x2; the kernel alone 31.6 → 10 µs per bin)
+ *   Q = R_L⁻¹ and Q² from L        65 → 19
+ *   eigenvalues                    72 → 38 (Householder on f64x2; tqlrat stays in JavaScript, ≈ 17)
+ *   processWindow, window hop 32   277 → 175–187
+ * Whole job (bench/run.ts, 10-min file): 32.2× → 45.6× real time per wall second (46.1× per
+ * CPU second); the FFT stage (fft.js) is now the largest single stage, ≈ 25 %.
  */
 import { parseArgs } from 'node:util';
 import { allocateWindowResult, createWindowEngine } from '../worker/dsp/window-engine.js';

@@ -92,9 +92,10 @@ describe('live channel (WebSocket fan-out)', function () {
     first.ws!.send(JSON.stringify({ type: 'subscribe', topics: ['jobs', 'queue'] }));
     await until('welcome', () => before.some((m) => m.type === 'welcome'));
 
-    // A finer fan than the demo's (4× the beams) keeps the job running long enough to cut the
-    // socket while it runs, even with the faster engine.
-    const params = { ...demoJobParams(1), beams: { azimuthFromDeg: -90, azimuthToDeg: 90, azimuthStepDeg: 0.25 } };
+    // A finer fan than the demo's (4× the beams) and a quarter of its frame hop (4× the windows)
+    // keep the job running for several progress ticks, so the socket is cut while it runs even
+    // with the SIMD engine (about 4 s of work here).
+    const params = { ...demoJobParams(1), hop: 32, beams: { azimuthFromDeg: -90, azimuthToDeg: 90, azimuthStepDeg: 0.25 } };
     const res = await analyst.post('/api/jobs', { name: 'live fan-out check', recordingId, params });
     expect(res.status, await res.clone().text()).to.equal(201);
     const { job } = (await res.json()) as { job: JobDto };

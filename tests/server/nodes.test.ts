@@ -54,7 +54,11 @@ describe('job node: real beamform jobs in compute children (pglite)', function (
   });
   let reference: { weights: string; sinr: string; records: Buffer };
 
+  const checkpointSecondsBefore = process.env['JOB_CHECKPOINT_SECONDS'];
   before(async () => {
+    // Compute children inherit this: a checkpoint every 0.1 s gives the kill test several
+    // checkpoints per attempt however fast the engine runs.
+    process.env['JOB_CHECKPOINT_SECONDS'] = '0.1';
     dir = fs.mkdtempSync(path.join(os.tmpdir(), 'nullsmith-nodes-'));
     resultsDir = path.join(dir, 'results');
     h = await openTestDatabase('pglite');
@@ -69,6 +73,8 @@ describe('job node: real beamform jobs in compute children (pglite)', function (
   after(async () => {
     await node?.stop();
     await pool?.close();
+    if (checkpointSecondsBefore === undefined) delete process.env['JOB_CHECKPOINT_SECONDS'];
+    else process.env['JOB_CHECKPOINT_SECONDS'] = checkpointSecondsBefore;
     await h?.close();
     fs.rmSync(dir, { recursive: true, force: true });
   });
@@ -117,9 +123,9 @@ describe('job node: real beamform jobs in compute children (pglite)', function (
   });
 
   it('survives SIGKILL of its compute child at random points: retried from the checkpoint, results byte-identical', async () => {
-    // A 30-second recording (about a thousand windows) so both kills land mid-job on a fast machine;
-    // its uninterrupted run is the reference.
-    const longRec = await insertReadyRecording(h, await writeSceneWav(dir, 30, 'long.wav'), owner);
+    // A 60-second recording (about two thousand windows) so both kills land mid-job on a fast
+    // machine; its uninterrupted run is the reference.
+    const longRec = await insertReadyRecording(h, await writeSceneWav(dir, 60, 'long.wav'), owner);
     const uninterrupted = await submit('long reference', { recordingId: longRec });
     expect(await waitFor(uninterrupted.id, ['succeeded', 'failed'])).to.equal('succeeded');
     const longReference = await outputs(uninterrupted.id);

@@ -7,6 +7,7 @@
 import fs from 'node:fs/promises';
 import path from 'node:path';
 import { CONVENTIONS_VERSION } from '../../shared/conventions.js';
+import type { KernelKind } from '../dsp/wasm/simd-kernels.js';
 import type { BeamformParams } from '../../shared/params/beamform-params.js';
 import type { WindowTiming } from '../../shared/params/job-layout.js';
 import { RESULTS_CAUTION } from '../../shared/params/result-caution.js';
@@ -58,6 +59,12 @@ export interface ResultHeader {
   training: TrainingPlan;
   setup: ResultSetup;
   records: RecordLayout & { file: string };
+  /**
+   * Which numeric kernels computed the records (worker/dsp/wasm/simd-kernels.ts). Not part of
+   * the resume check: a job resumed where the other kind is in use continues, and its later
+   * windows agree with an uninterrupted run to rounding (≈ 1e-12 relative) instead of bit for bit.
+   */
+  engine: { kernels: KernelKind };
   /** Free-form facts the caller adds (input checksums, software version, job id). */
   meta: Record<string, unknown>;
 }

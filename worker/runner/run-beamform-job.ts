@@ -24,6 +24,7 @@ import type { FrameSource } from '../io/frame-source.js';
 import { allocateWindowResult, createWindowEngine } from '../dsp/window-engine.js';
 import type { WindowResult } from '../dsp/window-engine.types.js';
 import { recordLayout } from '../results/record-layout.js';
+import { kernelKind } from '../dsp/wasm/simd-kernels.js';
 import { buildHeader, readHeader, sameResultShape, writeHeader, ResultFilesError, type ResultHeader } from '../results/result-header.js';
 import { ResultWriter, truncateToCheckpoint } from '../results/result-writer.js';
 import { buildEngineSetup } from './engine-setup.js';
@@ -134,6 +135,7 @@ export async function runBeamformJob(opts: RunBeamformJobOptions): Promise<RunBe
       sinrMethod: params.beamformer.kind !== 'conventional' && (plan.evaluation?.frames ?? 0) > 0 ? 'evaluation-block' : 'upper-bound',
     },
     records: { ...layout, file: 'windows.f32' },
+    engine: { kernels: kernelKind() },
     meta: opts.meta ?? {},
   });
 
