@@ -176,8 +176,11 @@ describe('live dashboard in the browser', function () {
     await signIn(page, server.url, OPS);
     const recs = await api<{ items: { id: number; name: string }[] }>(page, 'GET', `${server.url}/api/recordings?q=gannet-ledge-8ch.wav`);
     const recordingId = recs.items.find((r) => r.name === 'gannet-ledge-8ch.wav')!.id;
-    // A long job (1-frame window hop, fine fan) and one queued behind it (one compute slot).
-    const long = { ...demoJobParams(1), hop: 32, beams: { azimuthFromDeg: -90, azimuthToDeg: 90, azimuthStepDeg: 0.25, elevationsDeg: [0] } };
+    // A long job and one queued behind it (one compute slot). Length comes from work that writes
+    // nothing extra: a white-noise-gain floor 0.03 dB under the 8-element maximum makes every bin
+    // bisect its loading over most beams (about 35 s of work on the SIMD engine, 2026-12; the job is
+    // cancelled after about 10 s). A finer fan or hop would also lengthen it but multiply the records.
+    const long = { ...demoJobParams(1), hop: 16, loading: { kind: 'wng-floor' as const, minWngDb: 9 } };
     const running = await api<{ job: { id: number } }>(page, 'POST', `${server.url}/api/jobs`, { name: 'Long sweep to cancel', recordingId, params: long });
     const queued = await api<{ job: { id: number } }>(page, 'POST', `${server.url}/api/jobs`, { name: 'Waiting sweep', recordingId, params: demoJobParams() });
     await page.goto(`${server.url}/jobs`);
