@@ -59,6 +59,7 @@ import { allocateWindowResult, createWindowEngine } from '../worker/dsp/window-e
 import { blockCovariances } from '../worker/dsp/covariance.js';
 import { HermitianEigenvalues } from '../worker/dsp/hermitian-eigen.js';
 import { choleskyFactor } from '../worker/dsp/hermitian-cholesky.js';
+import { SimdCholesky } from '../worker/dsp/wasm/simd-cholesky.js';
 import { FourBeamSolver } from '../worker/dsp/beam-solves.js';
 import { LoadedInverse } from '../worker/dsp/loaded-inverse.js';
 import { BaselineGroups, groupedQuadraticForm } from '../worker/dsp/baseline-groups.js';
@@ -102,9 +103,15 @@ timeIt('  eigenvalues (Householder + QL)', reps, BINS, () => {
 });
 
 const chol = new Float64Array(BINS * m);
-timeIt('  Cholesky of R̂ + δI', reps, BINS, () => {
+timeIt('  Cholesky of R̂ + δI (JavaScript)', reps, BINS, () => {
   for (let b = 0; b < BINS; b++) choleskyFactor(chol.subarray(b * m, (b + 1) * m), covs, N, 0.1 * ev[b * N + N / 2], b * m);
 });
+const simdChol = SimdCholesky.create(N);
+if (simdChol) {
+  timeIt('  Cholesky of R̂ + δI (SIMD, incl. copy-in)', reps, BINS, () => {
+    for (let b = 0; b < BINS; b++) simdChol.factor(covs, b * m, 0.1 * ev[b * N + N / 2]);
+  });
+}
 
 const groups = new BaselineGroups(setup.positionsM, N);
 const units = new Float64Array(3 * BEAMS);

@@ -5,13 +5,24 @@
  */
 
 /**
- * Engine cost per (window, bin) at N = 32, K = 64, 91 beams (bench/dsp-engine.ts, MPDR, trace
- * loading), in microseconds. First measurement: 3500–3900 µs on a 2-core machine with a load
- * average of ≈ 15 (about seven busy processes per core); 1000 µs is our estimate for one
- * unloaded core from that. Re-measure with `node --import tsx bench/dsp-engine.ts` on the
- * deployment machine and pass the result in. Scales roughly with N²·(K + beams) + N³.
+ * Engine cost per (window, bin) at N = 32, K = 64, 91 beams, in microseconds, for one unloaded
+ * core. Measured 2026-12-03 on the 2-core development machine (AMD EPYC): bench/dsp-engine.ts
+ * gives 175–187 µs for processWindow with the SIMD kernels (277 µs with NULLSMITH_KERNELS=js);
+ * 200 leaves room for loading rules dearer than the noise floor. The first figure here (1000 µs,
+ * from a heavily loaded machine and the first engine) made estimates about 7× too long.
+ * Re-measure on the deployment machine and pass the result in. Scales roughly with
+ * N²·(K + beams) + N³.
  */
-export const REFERENCE_US_PER_WINDOW_BIN = 1000;
+export const REFERENCE_US_PER_WINDOW_BIN = 200;
+/**
+ * Effective STFT rate in flop/s, counting 5·nfft·log2(nfft) per frame and channel (the usual
+ * radix-2 operation count, common practice): the standard 10-minute job's FFT stage took 3.3 s
+ * for 600 000 channel-frames of nfft 512 (≈ 4.2 Gflop/s by that count, 2026-12-03); 3 Gflop/s
+ * keeps a margin.
+ */
+export const REFERENCE_STFT_FLOPS = 3e9;
+/** Reading, snapshot assembly and writing the records: about 15 % on top (bench/run.ts shares). */
+const IO_OVERHEAD = 1.15;
 const REFERENCE = { n: 32, k: 64, beams: 91 };
 
 export interface JobSize {
@@ -35,8 +46,9 @@ export function countWindows(s: JobSize): { frames: number; windows: number } {
 }
 
 /**
- * Estimated run time in seconds: engine cost per window-bin scaled from the reference size, plus
- * the STFT (≈ 5·nfft·log2(nfft) flops per frame and channel at an assumed 0.5 Gflop/s, from memory).
+ * Estimated run time in seconds on one core: engine cost per window-bin scaled from the
+ * reference size, plus the STFT, plus reading and writing. For the standard benchmark job
+ * (10 minutes, 584 windows × 84 bins) it gives ≈ 16.5 s against 13.1–13.6 s measured.
  */
 export function estimateRunSeconds(s: JobSize, usPerWindowBin = REFERENCE_US_PER_WINDOW_BIN): number {
   const { frames, windows } = countWindows(s);
@@ -44,8 +56,8 @@ export function estimateRunSeconds(s: JobSize, usPerWindowBin = REFERENCE_US_PER
   const k = s.snapshotsPerWindow;
   const scale = (n * n * (k + s.beams) + n ** 3) / (REFERENCE.n ** 2 * (REFERENCE.k + REFERENCE.beams) + REFERENCE.n ** 3);
   const engine = windows * s.bins * usPerWindowBin * scale * 1e-6;
-  const stft = (frames * n * 5 * s.nfft * Math.log2(s.nfft)) / 0.5e9;
-  return engine + stft;
+  const stft = (frames * n * 5 * s.nfft * Math.log2(s.nfft)) / REFERENCE_STFT_FLOPS;
+  return (engine + stft) * IO_OVERHEAD;
 }
 
 /**

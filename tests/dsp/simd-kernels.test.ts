@@ -4,6 +4,7 @@ import { create, all, type Complex, type Matrix } from 'mathjs';
 import { accumulateOuterProducts, accumulateOuterProductsJs } from '../../worker/dsp/covariance.js';
 import { choleskyFactor } from '../../worker/dsp/hermitian-cholesky.js';
 import { HermitianEigenvalues } from '../../worker/dsp/hermitian-eigen.js';
+import { SimdCholesky } from '../../worker/dsp/wasm/simd-cholesky.js';
 import { LoadedInverse } from '../../worker/dsp/loaded-inverse.js';
 import { kernelKind } from '../../worker/dsp/wasm/simd-kernels.js';
 import { KERNELS_SOURCE_DIR, KERNELS_SOURCES_HASH_PATH, KERNELS_WASM_PATH } from '../../scripts/compile-kernels.js';
@@ -116,6 +117,32 @@ describe('dsp/SIMD kernels: WebAssembly against the JavaScript reference', () =>
       expect(new HermitianEigenvalues(n, false).run(viaJs, 0, r)).to.equal(true);
       // Rank-deficient cases (K < N) have zero eigenvalues: compare against the largest.
       expect(maxRelativeDifference(viaSimd, viaJs)).to.be.below(1e-12);
+    });
+  }
+
+  for (const [n, k, delta] of [[32, 64, 0], [9, 30, 0.01], [32, 16, 0], [32, 16, 0.5], [1, 2, 0]] as const) {
+    it(`Cholesky of R̂ + δI (N = ${n}, K = ${k}, δ = ${delta}) matches the JavaScript factor, and agrees on "not positive definite"`, () => {
+      const rng = new SeededRandom(2000 + n * k);
+      const block = new Float64Array(k * n * 2);
+      rng.complexNormal(block);
+      const r = new Float64Array(2 * n * n + 6);
+      accumulateOuterProductsJs(r, 6, block, 0, k, n, 1 / k);
+      for (let i = 0; i < n; i++) {
+        for (let j = 0; j < i; j++) {
+          r[6 + 2 * (i * n + j)] = r[6 + 2 * (j * n + i)];
+          r[6 + 2 * (i * n + j) + 1] = -r[6 + 2 * (j * n + i) + 1];
+        }
+      }
+      const viaJs = new Float64Array(2 * n * n);
+      const okJs = choleskyFactor(viaJs, r, n, delta, 6);
+      const simd = SimdCholesky.create(n)!;
+      expect(simd.factor(r, 6, delta)).to.equal(okJs);
+      // K < N without loading is singular: both must refuse it (the engine marks the window).
+      if (k < n && delta === 0) expect(okJs).to.equal(false);
+      if (okJs) {
+        const lower = (m: Float64Array) => m.map((v, idx) => (Math.floor(idx / 2) % n <= Math.floor(idx / 2 / n) ? v : 0));
+        expect(maxRelativeDifference(lower(simd.l), lower(viaJs))).to.be.below(1e-12);
+      }
     });
   }
 });

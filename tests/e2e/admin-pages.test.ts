@@ -55,8 +55,12 @@ describe('admin, profile and API pages in the browser', function () {
     // The invitation's own panel: job-outcome mails from other suites may have arrived since.
     const invitation = page.locator('mat-expansion-panel').filter({ hasText: 'You are invited to Nullsmith' }).filter({ hasText: 'shearwater@example.org' }).first();
     await invitation.locator('mat-expansion-panel-header').click();
-    const body = await invitation.locator('pre.body').innerText();
-    const link = /(https?:\/\/\S+\/set-password\/nsl_\S+)/.exec(body)![1];
+    // textContent, not innerText: innerText of a panel still collapsing or expanding (visibility
+    // hidden) is empty.
+    const body = (await invitation.locator('pre.body').textContent()) ?? '';
+    const found = /(https?:\/\/\S+\/set-password\/nsl_\S+)/.exec(body);
+    expect(found, `no set-password link in the invitation body: ${JSON.stringify(body)}`).to.not.equal(null);
+    const link = found![1];
     await b.screenshot('admin-outbox');
 
     await page.getByRole('tab', { name: 'Settings' }).click();

@@ -20,6 +20,7 @@ import { choleskyFactor, solveLower, solveUpperConjInPlace } from './hermitian-c
 import { elementLeadsS, lookUnitVector, steeringFromLeads } from './steering.js';
 import { BaselineGroups, groupedQuadraticForm } from './baseline-groups.js';
 import { FourBeamSolver } from './beam-solves.js';
+import { SimdCholesky } from './wasm/simd-cholesky.js';
 import { LoadedInverse } from './loaded-inverse.js';
 import { ledoitWolf, medianOfSorted, noiseFloorLoading, traceLoading, traceOf, type LedoitWolf } from './loading.js';
 import { SinrEstimator, sinrUpperBound } from './sinr-estimate.js';
@@ -121,6 +122,8 @@ export class BeamformingEngine implements WindowEngine {
   private readonly windowCovs: WindowCovariances;
   private readonly eig: HermitianEigenvalues;
   private readonly chol: Float64Array;
+  /** The SIMD Cholesky whose memory `chol` views (null: JavaScript kernels). */
+  private readonly simdChol: SimdCholesky | null;
   private readonly z: Float64Array;
   private readonly leads: Float64Array; // nBeams·N lead times
   private readonly steerTable: Float64Array | null; // nBins·nBeams·2N
@@ -168,7 +171,8 @@ export class BeamformingEngine implements WindowEngine {
     this.m2 = 2 * n * n;
     this.windowCovs = new WindowCovariances(this.nBins, n, setup.snapshotsPerWindow);
     this.eig = new HermitianEigenvalues(n);
-    this.chol = new Float64Array(this.m2);
+    this.simdChol = SimdCholesky.create(n);
+    this.chol = this.simdChol ? this.simdChol.l : new Float64Array(this.m2);
     this.z = new Float64Array(2 * n);
     this.leads = new Float64Array(this.nBeams * n);
     const lead = new Float64Array(n);
@@ -559,9 +563,10 @@ export class BeamformingEngine implements WindowEngine {
     for (let i = 0; i < n2; i++) dst[d + i] = src[sOff + i] * scale;
   }
 
-  /** Cholesky of covs[off…] + δI into this.chol. */
+  /** Cholesky of covs[off…] + δI into this.chol (on the SIMD kernel when it is built). */
   private factorAt(covs: Float64Array, off: number, delta: number): boolean {
-    return choleskyFactor(this.chol, covs, this.channels, delta, off);
+    const simd = this.simdChol;
+    return simd ? simd.factor(covs, off, delta) : choleskyFactor(this.chol, covs, this.channels, delta, off);
   }
 
   /** Loading δ for one bin by the job's rule (eigenvalues of R̂ at eig[eOff…], descending). */

@@ -17,6 +17,7 @@ export interface KernelExports {
   gramOfInverse(t: number, q: number, n: number): void;
   squareOfHermitian(q: number, q2: number, n: number): void;
   tridiagonalize(a: number, v: number, p: number, d: number, e: number, n: number): void;
+  choleskyFactor(a: number, l: number, n: number, delta: number, floorRel: number): number;
 }
 
 export type KernelKind = 'wasm-simd' | 'javascript';

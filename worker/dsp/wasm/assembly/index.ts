@@ -16,3 +16,4 @@
 export { gramUpper } from './gram';
 export { invertLower, gramOfInverse, squareOfHermitian } from './loaded-inverse';
 export { tridiagonalize } from './householder';
+export { choleskyFactor } from './cholesky';
