@@ -18,6 +18,8 @@ export interface KernelExports {
   squareOfHermitian(q: number, q2: number, n: number): void;
   tridiagonalize(a: number, v: number, p: number, d: number, e: number, n: number): void;
   choleskyFactor(a: number, l: number, n: number, delta: number, floorRel: number): number;
+  fourBeamFactor(lower: number, upper: number, invDiag: number, n: number): void;
+  solveFour(lower: number, upper: number, invDiag: number, v4: number, z: number, u: number, norms: number, n: number): void;
 }
 
 export type KernelKind = 'wasm-simd' | 'javascript';
