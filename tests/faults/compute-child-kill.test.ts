@@ -31,12 +31,20 @@ describe(`faults: SIGKILL of the compute child at ${KILLS} random points of a jo
   let recordingId: number;
   const params = sceneParams(1);
 
+  const checkpointSecondsBefore = process.env['JOB_CHECKPOINT_SECONDS'];
   before(async () => {
     console.log(`    kill-point seed: ${seed} (replay with FAULT_SEED=${seed})`);
+    // Compute children inherit this: checkpoints every 0.1 s, so most kills find one to resume
+    // from however fast the engine runs (with the default 1 s the whole job can take two or three).
+    process.env['JOB_CHECKPOINT_SECONDS'] = '0.1';
     f = await startFaultNode();
     recordingId = await insertReadyRecording(f.h, await writeSceneWav(f.dir, 40), f.owner);
   });
-  after(async () => f?.close());
+  after(async () => {
+    await f?.close();
+    if (checkpointSecondsBefore === undefined) delete process.env['JOB_CHECKPOINT_SECONDS'];
+    else process.env['JOB_CHECKPOINT_SECONDS'] = checkpointSecondsBefore;
+  });
 
   it('finishes with results byte-identical to an uninterrupted run', async () => {
     const ref = await f.submit('uninterrupted', recordingId, { params });
