@@ -4,20 +4,7 @@
 // Returns 1 when positive definite, 0 when a pivot is at or below floorRel × the largest
 // diagonal entry (L is then garbage).
 
-// @ts-ignore: decorator
-@inline function swap(x: v128): v128 {
-  return v128.shuffle<f64>(x, x, 1, 0);
-}
-
-// @ts-ignore: decorator
-@inline function lane0(x: v128): f64 {
-  return f64x2.extract_lane(x, 0);
-}
-
-// @ts-ignore: decorator
-@inline function lane1(x: v128): f64 {
-  return f64x2.extract_lane(x, 1);
-}
+import { lane0, lane1, swap } from './lanes';
 
 export function choleskyFactor(a: usize, l: usize, n: i32, delta: f64, floorRel: f64): i32 {
   const rowB = <usize>n << 4;

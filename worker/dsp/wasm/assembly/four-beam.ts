@@ -4,15 +4,7 @@
 // ((i·4 + t)·2 + re|im); norms receives ‖z_t‖² (0…3) and ‖u_t‖² (4…7).
 // A complex product L·z is splat(Lr)·z + (−Li, Li)·swap(z).
 
-// @ts-ignore: decorator
-@inline function swap(x: v128): v128 {
-  return v128.shuffle<f64>(x, x, 1, 0);
-}
-
-// @ts-ignore: decorator
-@inline function laneSum(x: v128): f64 {
-  return f64x2.extract_lane(x, 0) + f64x2.extract_lane(x, 1);
-}
+import { laneSum, swap } from './lanes';
 
 /** From lo (L, lower triangle, already copied in): up = Lᴴ and inv_i = 1/L_ii. */
 export function fourBeamFactor(lo: usize, up: usize, inv: usize, n: i32): void {

@@ -3,25 +3,7 @@
 // loops, with the complex multiply-adds of p = A·v and of the rank-2 update on f64x2 lanes.
 // Any N. Writes the diagonal to d and the squared off-diagonal moduli to e (for tqlrat).
 
-// @ts-ignore: decorator
-@inline function swap(x: v128): v128 {
-  return v128.shuffle<f64>(x, x, 1, 0);
-}
-
-// @ts-ignore: decorator
-@inline function conj(x: v128): v128 {
-  return f64x2.mul(x, f64x2(1, -1));
-}
-
-// @ts-ignore: decorator
-@inline function lane0(x: v128): f64 {
-  return f64x2.extract_lane(x, 0);
-}
-
-// @ts-ignore: decorator
-@inline function lane1(x: v128): f64 {
-  return f64x2.extract_lane(x, 1);
-}
+import { conj, lane0, lane1, swap } from './lanes';
 
 /**
  * a: N×N interleaved (lower triangle used, reduced in place); v, p: 2N doubles of scratch;

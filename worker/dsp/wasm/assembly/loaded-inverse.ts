@@ -4,20 +4,7 @@
 //   x·c          lanes (xr·cr, xi·ci)   → re of x·conj(c) is lane0 + lane1, of x·c lane0 − lane1
 //   x·swap(c)    lanes (xr·ci, xi·cr)   → im of conj(x)·c is lane0 − lane1, of x·c lane0 + lane1
 
-// @ts-ignore: decorator
-@inline function swap(v: v128): v128 {
-  return v128.shuffle<f64>(v, v, 1, 0);
-}
-
-// @ts-ignore: decorator
-@inline function lane0(v: v128): f64 {
-  return f64x2.extract_lane(v, 0);
-}
-
-// @ts-ignore: decorator
-@inline function lane1(v: v128): f64 {
-  return f64x2.extract_lane(v, 1);
-}
+import { lane0, lane1, swap } from './lanes';
 
 /**
  * X = L⁻¹ column by column, stored transposed: row j of t holds column j of X (entries at and
@@ -69,45 +56,10 @@ export function invertLower(l: usize, t: usize, n: i32): void {
  */
 export function gramOfInverse(t: usize, q: usize, n: i32): void {
   const rowB = <usize>n << 4;
-  const end = rowB;
   for (let i = 0; i < n; i += 2) {
-    const rI = t + <usize>i * rowB;
-    const rI1 = rI + rowB;
-    const oI = q + <usize>i * rowB;
-    const oI1 = oI + rowB;
     for (let j = i; j < n; j += 2) {
-      const rJ = t + <usize>j * rowB;
-      const rJ1 = rJ + rowB;
-      let aap = f64x2.splat(0), aaq = f64x2.splat(0), abp = f64x2.splat(0), abq = f64x2.splat(0);
-      let bap = f64x2.splat(0), baq = f64x2.splat(0), bbp = f64x2.splat(0), bbq = f64x2.splat(0);
-      for (let k = <usize>j << 4; k < end; k += 16) {
-        const x = v128.load(rI + k);
-        const y = v128.load(rI1 + k);
-        const c = v128.load(rJ + k);
-        const d = v128.load(rJ1 + k);
-        const cs = swap(c);
-        const ds = swap(d);
-        aap = f64x2.add(aap, f64x2.mul(x, c));
-        aaq = f64x2.add(aaq, f64x2.mul(x, cs));
-        abp = f64x2.add(abp, f64x2.mul(x, d));
-        abq = f64x2.add(abq, f64x2.mul(x, ds));
-        bap = f64x2.add(bap, f64x2.mul(y, c));
-        baq = f64x2.add(baq, f64x2.mul(y, cs));
-        bbp = f64x2.add(bbp, f64x2.mul(y, d));
-        bbq = f64x2.add(bbq, f64x2.mul(y, ds));
-      }
-      const jb = <usize>j << 4;
-      const diag = i == j;
-      store<f64>(oI + jb, lane0(aap) + lane1(aap));
-      store<f64>(oI + jb + 8, diag ? 0 : lane0(aaq) - lane1(aaq));
-      store<f64>(oI + jb + 16, lane0(abp) + lane1(abp));
-      store<f64>(oI + jb + 24, lane0(abq) - lane1(abq));
-      if (!diag) {
-        store<f64>(oI1 + jb, lane0(bap) + lane1(bap));
-        store<f64>(oI1 + jb + 8, lane0(baq) - lane1(baq));
-      }
-      store<f64>(oI1 + jb + 16, lane0(bbp) + lane1(bbp));
-      store<f64>(oI1 + jb + 24, diag ? 0 : lane0(bbq) - lane1(bbq));
+      // conj(x)·c: im = lane0 − lane1 of x·swap(c); rows of Xᵀ are zero before their diagonal.
+      rowPairProducts(t, q, rowB, i, j, <usize>j << 4, 1);
     }
   }
   for (let a = 0; a < n; a++) {
@@ -127,43 +79,55 @@ export function gramOfInverse(t: usize, q: usize, n: i32): void {
 export function squareOfHermitian(q: usize, q2: usize, n: i32): void {
   const rowB = <usize>n << 4;
   for (let i = 0; i < n; i += 2) {
-    const rI = q + <usize>i * rowB;
-    const rI1 = rI + rowB;
-    const oI = q2 + <usize>i * rowB;
-    const oI1 = oI + rowB;
     for (let j = i; j < n; j += 2) {
-      const rJ = q + <usize>j * rowB;
-      const rJ1 = rJ + rowB;
-      let aap = f64x2.splat(0), aaq = f64x2.splat(0), abp = f64x2.splat(0), abq = f64x2.splat(0);
-      let bap = f64x2.splat(0), baq = f64x2.splat(0), bbp = f64x2.splat(0), bbq = f64x2.splat(0);
-      for (let k: usize = 0; k < rowB; k += 16) {
-        const x = v128.load(rI + k);
-        const y = v128.load(rI1 + k);
-        const c = v128.load(rJ + k);
-        const d = v128.load(rJ1 + k);
-        const cs = swap(c);
-        const ds = swap(d);
-        aap = f64x2.add(aap, f64x2.mul(x, c));
-        aaq = f64x2.add(aaq, f64x2.mul(x, cs));
-        abp = f64x2.add(abp, f64x2.mul(x, d));
-        abq = f64x2.add(abq, f64x2.mul(x, ds));
-        bap = f64x2.add(bap, f64x2.mul(y, c));
-        baq = f64x2.add(baq, f64x2.mul(y, cs));
-        bbp = f64x2.add(bbp, f64x2.mul(y, d));
-        bbq = f64x2.add(bbq, f64x2.mul(y, ds));
-      }
-      const jb = <usize>j << 4;
-      const diag = i == j;
-      store<f64>(oI + jb, lane0(aap) + lane1(aap));
-      store<f64>(oI + jb + 8, diag ? 0 : lane1(aaq) - lane0(aaq));
-      store<f64>(oI + jb + 16, lane0(abp) + lane1(abp));
-      store<f64>(oI + jb + 24, lane1(abq) - lane0(abq));
-      if (!diag) {
-        store<f64>(oI1 + jb, lane0(bap) + lane1(bap));
-        store<f64>(oI1 + jb + 8, lane1(baq) - lane0(baq));
-      }
-      store<f64>(oI1 + jb + 16, lane0(bbp) + lane1(bbp));
-      store<f64>(oI1 + jb + 24, diag ? 0 : lane1(bbq) - lane0(bbq));
+      // x·conj(c): im = lane1 − lane0 of x·swap(c).
+      rowPairProducts(q, q2, rowB, i, j, 0, -1);
     }
   }
+}
+
+/**
+ * The 2×2 tile (i, i+1) × (j, j+1) of the row products Σ_k x_k·conj(c_k) (re) with the imaginary
+ * part imSign·(lane0 − lane1) of Σ x·swap(c), over byte columns [from, rowB) of rows of `src`,
+ * written to `dst`; on a diagonal tile (i = j) the entry below the diagonal is left alone and the
+ * diagonal's imaginary parts are written as 0. Shared by gramOfInverse (imSign 1) and
+ * squareOfHermitian (imSign −1): the same terms, conjugated.
+ */
+// @ts-ignore: decorator
+@inline function rowPairProducts(src: usize, dst: usize, rowB: usize, i: i32, j: i32, from: usize, imSign: f64): void {
+  const rI = src + <usize>i * rowB;
+  const rI1 = rI + rowB;
+  const rJ = src + <usize>j * rowB;
+  const rJ1 = rJ + rowB;
+  let aap = f64x2.splat(0), aaq = f64x2.splat(0), abp = f64x2.splat(0), abq = f64x2.splat(0);
+  let bap = f64x2.splat(0), baq = f64x2.splat(0), bbp = f64x2.splat(0), bbq = f64x2.splat(0);
+  for (let k = from; k < rowB; k += 16) {
+    const x = v128.load(rI + k);
+    const y = v128.load(rI1 + k);
+    const c = v128.load(rJ + k);
+    const d = v128.load(rJ1 + k);
+    const cs = swap(c);
+    const ds = swap(d);
+    aap = f64x2.add(aap, f64x2.mul(x, c));
+    aaq = f64x2.add(aaq, f64x2.mul(x, cs));
+    abp = f64x2.add(abp, f64x2.mul(x, d));
+    abq = f64x2.add(abq, f64x2.mul(x, ds));
+    bap = f64x2.add(bap, f64x2.mul(y, c));
+    baq = f64x2.add(baq, f64x2.mul(y, cs));
+    bbp = f64x2.add(bbp, f64x2.mul(y, d));
+    bbq = f64x2.add(bbq, f64x2.mul(y, ds));
+  }
+  const oI = dst + <usize>i * rowB + (<usize>j << 4);
+  const oI1 = oI + rowB;
+  const diag = i == j;
+  store<f64>(oI, lane0(aap) + lane1(aap));
+  store<f64>(oI + 8, diag ? 0 : imSign * (lane0(aaq) - lane1(aaq)));
+  store<f64>(oI + 16, lane0(abp) + lane1(abp));
+  store<f64>(oI + 24, imSign * (lane0(abq) - lane1(abq)));
+  if (!diag) {
+    store<f64>(oI1, lane0(bap) + lane1(bap));
+    store<f64>(oI1 + 8, imSign * (lane0(baq) - lane1(baq)));
+  }
+  store<f64>(oI1 + 16, lane0(bbp) + lane1(bbp));
+  store<f64>(oI1 + 24, diag ? 0 : imSign * (lane0(bbq) - lane1(bbq)));
 }
