@@ -50,7 +50,7 @@
  *   covariance, window hop 32      57 → 31 (group Gram on f64x2; the kernel alone 31.6 → 10 µs per bin)
  *   Q = R_L⁻¹ and Q² from L        65 → 19
  *   eigenvalues                    72 → 38 (Householder on f64x2; tqlrat stays in JavaScript, ≈ 17)
- *   Cholesky                       21 → 5.5 (including the copy into the kernel's memory)
+ *   Cholesky                       21 → 7.5 (including the copy into the kernel's memory)
  *   MPDR solves, 91 beams          253 → 89 (four-beam substitutions; the standard job uses them
  *                                  for its 8 saved beams, jobs with a SINR evaluation block for all)
  *   processWindow, window hop 32   277 → 141–142

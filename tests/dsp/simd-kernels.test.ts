@@ -1,7 +1,7 @@
 import { expect } from 'chai';
 import fs from 'node:fs';
 import { create, all, type Complex, type Matrix } from 'mathjs';
-import { accumulateOuterProducts, accumulateOuterProductsJs } from '../../worker/dsp/covariance.js';
+import { accumulateOuterProducts, accumulateOuterProductsJs, mirrorUpper } from '../../worker/dsp/covariance.js';
 import { choleskyFactor } from '../../worker/dsp/hermitian-cholesky.js';
 import { HermitianEigenvalues } from '../../worker/dsp/hermitian-eigen.js';
 import { SimdCholesky } from '../../worker/dsp/wasm/simd-cholesky.js';
@@ -22,6 +22,20 @@ function maxRelativeDifference(a: Float64Array, b: Float64Array, from = 0, to = 
     diff = Math.max(diff, Math.abs(a[i] - b[i]));
   }
   return diff / scale;
+}
+
+/**
+ * Full Hermitian sample covariance (1/K)·Σ x·xᴴ of K complex Gaussian snapshots at r[off…]
+ * (rank-deficient when K < N), and the generator for further draws.
+ */
+function sampleCovariance(n: number, k: number, seed: number, off = 0): { r: Float64Array; rng: SeededRandom } {
+  const rng = new SeededRandom(seed);
+  const block = new Float64Array(k * n * 2);
+  rng.complexNormal(block);
+  const r = new Float64Array(off + 2 * n * n);
+  accumulateOuterProductsJs(r, off, block, 0, k, n, 1 / k);
+  mirrorUpper(r, off, n);
+  return { r, rng };
 }
 
 /**
@@ -76,19 +90,8 @@ const simdInUse = process.env['NULLSMITH_KERNELS'] !== 'js';
 
   for (const n of [32, 12, 2]) {
     it(`L⁻¹, Q = R_L⁻¹ and Q² (N = ${n}) match the JavaScript kernels`, () => {
-      const k = 2 * n + 5;
-      const rng = new SeededRandom(n);
-      const block = new Float64Array(k * n * 2);
-      rng.complexNormal(block);
-      const r = new Float64Array(2 * n * n);
-      accumulateOuterProductsJs(r, 0, block, 0, k, n, 1 / k);
-      for (let i = 0; i < n; i++) {
-        for (let j = 0; j < i; j++) {
-          r[2 * (i * n + j)] = r[2 * (j * n + i)];
-          r[2 * (i * n + j) + 1] = -r[2 * (j * n + i) + 1];
-        }
-        r[2 * (i * n + i)] += 0.1;
-      }
+      const { r } = sampleCovariance(n, 2 * n + 5, n);
+      for (let i = 0; i < n; i++) r[2 * (i * n + i)] += 0.1;
       const l = new Float64Array(2 * n * n);
       expect(choleskyFactor(l, r, n)).to.equal(true);
       const simd = new LoadedInverse(n);
@@ -104,17 +107,7 @@ const simdInUse = process.env['NULLSMITH_KERNELS'] !== 'js';
 
   for (const [n, k] of [[32, 64], [32, 16], [9, 30], [3, 2], [2, 5], [1, 3]] as const) {
     it(`eigenvalues by the SIMD Householder reduction (N = ${n}, K = ${k}) match the JavaScript one`, () => {
-      const rng = new SeededRandom(1000 + n * k);
-      const block = new Float64Array(k * n * 2);
-      rng.complexNormal(block);
-      const r = new Float64Array(2 * n * n);
-      accumulateOuterProductsJs(r, 0, block, 0, k, n, 1 / k);
-      for (let i = 0; i < n; i++) {
-        for (let j = 0; j < i; j++) {
-          r[2 * (i * n + j)] = r[2 * (j * n + i)];
-          r[2 * (i * n + j) + 1] = -r[2 * (j * n + i) + 1];
-        }
-      }
+      const { r } = sampleCovariance(n, k, 1000 + n * k);
       const viaSimd = new Float64Array(n);
       const viaJs = new Float64Array(n);
       expect(new HermitianEigenvalues(n).run(viaSimd, 0, r)).to.equal(true);
@@ -126,17 +119,7 @@ const simdInUse = process.env['NULLSMITH_KERNELS'] !== 'js';
 
   for (const [n, k, delta] of [[32, 64, 0], [9, 30, 0.01], [32, 16, 0], [32, 16, 0.5], [1, 2, 0]] as const) {
     it(`Cholesky of R̂ + δI (N = ${n}, K = ${k}, δ = ${delta}) matches the JavaScript factor, and agrees on "not positive definite"`, () => {
-      const rng = new SeededRandom(2000 + n * k);
-      const block = new Float64Array(k * n * 2);
-      rng.complexNormal(block);
-      const r = new Float64Array(2 * n * n + 6);
-      accumulateOuterProductsJs(r, 6, block, 0, k, n, 1 / k);
-      for (let i = 0; i < n; i++) {
-        for (let j = 0; j < i; j++) {
-          r[6 + 2 * (i * n + j)] = r[6 + 2 * (j * n + i)];
-          r[6 + 2 * (i * n + j) + 1] = -r[6 + 2 * (j * n + i) + 1];
-        }
-      }
+      const { r } = sampleCovariance(n, k, 2000 + n * k, 6);
       const viaJs = new Float64Array(2 * n * n);
       const okJs = choleskyFactor(viaJs, r, n, delta, 6);
       const simd = SimdCholesky.create(n)!;
@@ -152,12 +135,7 @@ const simdInUse = process.env['NULLSMITH_KERNELS'] !== 'js';
 
   for (const n of [32, 7, 1]) {
     it(`four-beam substitutions z = L⁻¹v, u = L⁻ᴴz (N = ${n}) match the JavaScript solver`, () => {
-      const k = 3 * n + 2;
-      const rng = new SeededRandom(3000 + n);
-      const block = new Float64Array(k * n * 2);
-      rng.complexNormal(block);
-      const r = new Float64Array(2 * n * n);
-      accumulateOuterProductsJs(r, 0, block, 0, k, n, 1 / k);
+      const { r, rng } = sampleCovariance(n, 3 * n + 2, 3000 + n);
       const l = new Float64Array(2 * n * n);
       expect(choleskyFactor(l, r, n, 0.05)).to.equal(true);
       l.forEach((_, idx) => {

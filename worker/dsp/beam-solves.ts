@@ -88,7 +88,8 @@ export class FourBeamSolver {
     const kernels = this.kernels;
     if (kernels) {
       // Only the lower triangle is read; the strict upper triangle of l may hold anything.
-      this.lower.set(l.subarray(0, 2 * n * n));
+      const m = 2 * n * n;
+      this.lower.set(l.length === m ? l : l.subarray(0, m));
       const at = this.at;
       kernels.fourBeamFactor(at.lower, at.upper, at.invDiag, n);
       return;

@@ -43,19 +43,7 @@ function accumulateWithSimd(simd: SimdGram, r: Float64Array, rOff: number, block
   const pr = simd.planeRe;
   const pi = simd.planeIm;
   const stride = simd.count;
-  let fourth = 0;
-  for (let k = 0; k < count; k++) {
-    const x = snapOff + 2 * n * k;
-    let norm2 = 0;
-    for (let i = 0; i < n; i++) {
-      const re = block[x + 2 * i];
-      const im = block[x + 2 * i + 1];
-      pr[i * stride + k] = re;
-      pi[i * stride + k] = im;
-      norm2 += re * re + im * im;
-    }
-    fourth += norm2 * norm2;
-  }
+  const fourth = toChannelPlanes(pr, pi, stride, block, snapOff, count, n);
   if (stride > count) {
     for (let i = 0; i < n; i++) {
       pr[i * stride + count] = 0;
@@ -80,6 +68,27 @@ function accumulateWithSimd(simd: SimdGram, r: Float64Array, rOff: number, block
   return fourth * scale;
 }
 
+/**
+ * Copies `count` snapshots (2N doubles apart from snapOff) into channel-major planes, row i at
+ * i·stride, and returns Σ‖x‖⁴ over them (for Ledoit–Wolf).
+ */
+function toChannelPlanes(pr: Float64Array, pi: Float64Array, stride: number, block: Float64Array, snapOff: number, count: number, n: number): number {
+  let fourth = 0;
+  for (let k = 0; k < count; k++) {
+    const x = snapOff + 2 * n * k;
+    let norm2 = 0;
+    for (let i = 0; i < n; i++) {
+      const re = block[x + 2 * i];
+      const im = block[x + 2 * i + 1];
+      pr[i * stride + k] = re;
+      pi[i * stride + k] = im;
+      norm2 += re * re + im * im;
+    }
+    fourth += norm2 * norm2;
+  }
+  return fourth;
+}
+
 /** The JavaScript kernel: the reference the SIMD one is tested against, and the fallback. */
 export function accumulateOuterProductsJs(r: Float64Array, rOff: number, block: Float64Array, snapOff: number, count: number, n: number, scale: number): number {
   if (planeRe.length < n * count) {
@@ -88,19 +97,7 @@ export function accumulateOuterProductsJs(r: Float64Array, rOff: number, block: 
   }
   const pr = planeRe;
   const pi = planeIm;
-  let fourth = 0;
-  for (let k = 0; k < count; k++) {
-    const x = snapOff + 2 * n * k;
-    let norm2 = 0;
-    for (let i = 0; i < n; i++) {
-      const re = block[x + 2 * i];
-      const im = block[x + 2 * i + 1];
-      pr[i * count + k] = re;
-      pi[i * count + k] = im;
-      norm2 += re * re + im * im;
-    }
-    fourth += norm2 * norm2;
-  }
+  const fourth = toChannelPlanes(pr, pi, count, block, snapOff, count, n);
   let i = 0;
   for (; i + 1 < n; i += 2) {
     const a = i * count;

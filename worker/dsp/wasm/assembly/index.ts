@@ -6,7 +6,7 @@
 // multiply-add in one instruction, which scalar JavaScript cannot express. Measured on the
 // standard job's sizes (N = 32), CPU per window-bin, JavaScript → WebAssembly: group Gram
 // (covariance) 57 → 31 µs, Q = R_L⁻¹ and Q² 65 → 19 µs, Householder reduction of the
-// eigenvalue step 72 → 38 µs with the QL part (JavaScript, 17 µs), Cholesky 21 → 5.5 µs,
+// eigenvalue step 72 → 38 µs with the QL part (JavaScript, 17 µs), Cholesky 21 → 7.5 µs,
 // four-beam substitutions (91 beams) 253 → 89 µs (bench/dsp-engine.ts header). No
 // general-purpose npm package offers SIMD complex kernels for these shapes, hence our own.
 //
