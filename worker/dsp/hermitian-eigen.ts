@@ -21,19 +21,22 @@ export class HermitianEigenvalues {
   private readonly d: Float64Array; // tridiagonal diagonal
   private readonly e: Float64Array; // squared moduli of the tridiagonal off-diagonal
   private readonly kernels: KernelExports | null;
+  /** Byte offsets of work, v, p, d, e in the kernel instance's memory (SIMD path). */
+  private readonly at: { work: number; v: number; p: number; d: number; e: number };
 
   constructor(n: number, useSimd = true) {
     if (!Number.isInteger(n) || n < 1) throw new RangeError(`matrix order must be a positive integer, got ${n}`);
     this.n = n;
     const m = 2 * n * n;
+    const at = (this.at = { work: 0, v: 8 * m, p: 8 * (m + 2 * n), d: 8 * (m + 4 * n), e: 8 * (m + 5 * n) });
     const kernels = useSimd ? instantiateKernels(8 * (m + 6 * n)) : null;
     this.kernels = kernels;
     if (kernels) {
-      this.work = kernelView(kernels, 0, m);
-      this.v = kernelView(kernels, 8 * m, 2 * n);
-      this.p = kernelView(kernels, 8 * (m + 2 * n), 2 * n);
-      this.d = kernelView(kernels, 8 * (m + 4 * n), n);
-      this.e = kernelView(kernels, 8 * (m + 5 * n), n);
+      this.work = kernelView(kernels, at.work, m);
+      this.v = kernelView(kernels, at.v, 2 * n);
+      this.p = kernelView(kernels, at.p, 2 * n);
+      this.d = kernelView(kernels, at.d, n);
+      this.e = kernelView(kernels, at.e, n);
     } else {
       this.work = new Float64Array(m);
       this.v = new Float64Array(2 * n);
@@ -61,8 +64,8 @@ export class HermitianEigenvalues {
     }
     const kernels = this.kernels;
     if (kernels) {
-      const m = 2 * n * n;
-      kernels.tridiagonalize(0, 8 * m, 8 * (m + 2 * n), 8 * (m + 4 * n), 8 * (m + 5 * n), n);
+      const at = this.at;
+      kernels.tridiagonalize(at.work, at.v, at.p, at.d, at.e, n);
     } else {
       this.tridiagonalize();
     }
